@@ -1,0 +1,5 @@
+// Public: signing out with no session is harmless.
+export default defineEventHandler(async (event) => {
+  await clearUserSession(event)
+  return { ok: true }
+})

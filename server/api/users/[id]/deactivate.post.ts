@@ -1,0 +1,1 @@
+export default defineEventHandler(event => setActive(event, false))

@@ -1,0 +1,71 @@
+import { existsSync, mkdirSync } from 'node:fs'
+import { dirname, join, resolve } from 'node:path'
+import { createClient, type Client } from '@libsql/client'
+import { drizzle, type LibSQLDatabase } from 'drizzle-orm/libsql'
+import { migrate } from 'drizzle-orm/libsql/migrator'
+import * as schema from '../database/schema'
+
+export type Db = LibSQLDatabase<typeof schema>
+export { schema }
+
+/** The default database: a file under .data/ in the working directory. */
+export const DEFAULT_DATABASE_URL = 'file:.data/tightwell.db'
+
+export function databaseUrl(): string {
+  return process.env.NUXT_DATABASE_URL || process.env.DATABASE_URL || DEFAULT_DATABASE_URL
+}
+
+/** Where the migrations are: beside the built server, or drizzle/ in the project during dev and tests. */
+function migrationsFolder(): string {
+  const candidates = [
+    process.env.TIGHTWELL_MIGRATIONS_DIR,
+    process.argv[1] ? join(dirname(resolve(process.argv[1])), 'drizzle') : undefined,
+    resolve(process.cwd(), 'drizzle'),
+    resolve(process.cwd(), '.output/server/drizzle'),
+  ]
+  const found = candidates.find(c => c && existsSync(join(c, 'meta', '_journal.json')))
+  if (!found) throw new Error(`Tightwell: no drizzle migrations found (looked in ${candidates.filter(Boolean).join(', ')})`)
+  return found
+}
+
+let client: Client | undefined
+let ready: Promise<Db> | undefined
+
+async function open(): Promise<Db> {
+  const url = databaseUrl()
+  const isFile = url.startsWith('file:')
+  if (isFile) {
+    const path = url.slice('file:'.length).split('?')[0]!
+    if (path && path !== ':memory:') mkdirSync(dirname(resolve(path)), { recursive: true })
+  }
+  // `timeout` is SQLite's busy timeout for file databases (ms).
+  client = createClient({ url, authToken: process.env.NUXT_DATABASE_AUTH_TOKEN || undefined, timeout: 5000 })
+  if (isFile) {
+    // WAL lets readers work while one writer commits; it is a property of the file, set once.
+    await client.execute('PRAGMA journal_mode = WAL')
+    await client.execute('PRAGMA foreign_keys = ON')
+  }
+  const db = drizzle(client, { schema, casing: 'snake_case' })
+  await migrate(db, { migrationsFolder: migrationsFolder() })
+  await seedIfEmpty(db)
+  return db
+}
+
+/**
+ * The database, once migrations (and the demo seed, when on) have been applied.
+ * Every handler awaits this: Nitro does not wait for async plugins before serving.
+ */
+export function useDb(): Promise<Db> {
+  ready ??= open().catch((error) => {
+    ready = undefined
+    throw error
+  })
+  return ready
+}
+
+/** For tests and shutdown. */
+export function closeDb(): void {
+  client?.close()
+  client = undefined
+  ready = undefined
+}
