@@ -2,6 +2,9 @@ import { fileURLToPath } from 'node:url'
 import { defineConfig } from 'vitest/config'
 import { defineVitestProject } from '@nuxt/test-utils/config'
 
+// One id per `vitest run`: the e2e and browser projects build the app once for it.
+process.env.TIGHTWELL_TEST_RUN ??= `${process.pid}-${Date.now()}`
+
 const alias = {
   '#shared': fileURLToPath(new URL('./shared', import.meta.url)),
 }

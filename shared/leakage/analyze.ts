@@ -166,10 +166,12 @@ function analyzeDirection(test: TestInput, dims: Dimensions, units: UnitSystem):
   if (count === 1) {
     method = 'single-point'
     n = test.assumedExponent ?? DEFAULT_ASSUMED_EXPONENT
-    const x = xs[0] as number
-    // CFM50 = Q·(50/ΔP)ⁿ (CHECKS.md §5); C = Q/ΔPⁿ.
-    lnC = (ys[0] as number) - n * x
-    cfm50 = Math.exp((ys[0] as number) + n * (LN_REF - x))
+    // CFM50 = Q·(50/ΔP)ⁿ (CHECKS.md §5); C = Q/ΔPⁿ. Computed with pow rather than exp/log so a
+    // reading taken at exactly 50 Pa gives CFM50 equal to the flow, bit for bit.
+    const only = points[0] as DirectionResult['points'][number]
+    const qCfm = units === 'ip' ? only.envelopeFlow : only.envelopeFlow / M3H_PER_CFM
+    cfm50 = qCfm * Math.pow(REFERENCE_PRESSURE_PA / only.pressure, n)
+    lnC = Math.log(qCfm) - n * (xs[0] as number)
     if (pMax < REFERENCE_PRESSURE_PA) {
       warnings.push({
         code: 'extrapolated',
@@ -243,9 +245,11 @@ function analyzeDirection(test: TestInput, dims: Dimensions, units: UnitSystem):
   const C = Math.exp(lnC)
   const ela = ELA_FACTOR * Math.exp(lnC + n * LN_4)
   const eqla = EQLA_FACTOR * Math.exp(lnC + n * LN_10)
-  const perVolume = 60 / dims.volumeFt3
+  const volumeFt3 = dims.volumeFt3
   const q50 = cfm50 * M3H_PER_CFM
-  const ach50 = cfm50 * perVolume
+  // ACH50 = CFM50·60/V_ft³ (CHECKS.md §3), multiplied before dividing so round inputs at a code
+  // limit stay exact (900·60/18000 = 3, not 3.0000000000000004).
+  const ach50 = (cfm50 * 60) / volumeFt3
   const encl = dims.enclosureAreaFt2
   const floor = dims.floorAreaFt2
   const sla = floor === null ? null : ela / (floor * M2_PER_FT2)
@@ -267,7 +271,7 @@ function analyzeDirection(test: TestInput, dims: Dimensions, units: UnitSystem):
     // ACH50 = CFM50·60/V_ft³ (CHECKS.md §3); n50 = q50/V_m³ is algebraically the same number.
     ach50,
     n50: ach50,
-    ach50Ci95: cfm50Ci === null ? null : [cfm50Ci[0] * perVolume, cfm50Ci[1] * perVolume],
+    ach50Ci95: cfm50Ci === null ? null : [(cfm50Ci[0] * 60) / volumeFt3, (cfm50Ci[1] * 60) / volumeFt3],
     // Per-area metrics: CHECKS.md §3 (1 cfm/ft² = 18.288 m³/(h·m²), CHECKS.md §1).
     cfm50PerEnclosureArea: encl === null ? null : cfm50 / encl,
     cfm50PerFloorArea: floor === null ? null : cfm50 / floor,

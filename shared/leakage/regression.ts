@@ -64,10 +64,16 @@ export function fitLogLog(x: ArrayLike<number>, y: ArrayLike<number>, count: num
   if (!(sxx > 0)) throw new RangeError('A least-squares fit needs at least 2 different pressures')
   const slope = sxy / sxx
   const intercept = meanY - slope * meanX
-  // Residual sum of squares = (N−1)(S_y² − n·S_xy); rounding can make it a hair negative.
-  const sse = Math.max(0, syy - slope * sxy)
-  // r² = S_xy²/(S_x²·S_y²); when every y is equal the line fits exactly (sse = 0).
-  const r2 = syy > 0 ? (sxy * sxy) / (sxx * syy) : 1
+  // Residual sum of squares, algebraically (N−1)(S_y² − n·S_xy) of CHECKS.md §2, but summed from
+  // the residuals: the difference form cancels badly when r² is close to 1.
+  let sse = 0
+  for (let i = 0; i < count; i++) {
+    const e = (y[i] as number) - meanY - slope * ((x[i] as number) - meanX)
+    sse += e * e
+  }
+  // r² = (S_xy/(S_x·S_y))² (CHECKS.md §2), written as the equal 1 − SSE/Σ(y−ȳ)² which keeps its
+  // digits near 1; when every y is equal the line fits exactly.
+  const r2 = syy > 0 ? 1 - sse / syy : 1
   let slopeStdError: number | null = null
   let interceptStdError: number | null = null
   if (count > 2) {
