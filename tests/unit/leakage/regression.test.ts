@@ -137,8 +137,12 @@ describe('least-squares fit against general-purpose statistics packages', () => 
         const sxx = x.reduce((a, xi) => a + (xi - xBar) ** 2, 0)
         const sse = x.reduce((a, xi, i) => a + ((y[i] as number) - line(xi)) ** 2, 0)
         const s2 = sse / (N - 2)
-        expectRel(fit.slopeStdError, Math.sqrt(s2 / sxx), 1e-7)
-        expectRel(fit.interceptStdError, Math.sqrt(s2 * (1 / N + (xBar * xBar) / sxx)), 1e-7)
+        // Relative 1e-7, with an absolute floor of 1e-10 for scatter-free data, where both
+        // standard errors are round-off (~1e-13) rather than statistics.
+        const seSlope = Math.sqrt(s2 / sxx)
+        const seIntercept = Math.sqrt(s2 * (1 / N + (xBar * xBar) / sxx))
+        expect(Math.abs((fit.slopeStdError as number) - seSlope)).toBeLessThanOrEqual(1e-7 * seSlope + 1e-10)
+        expect(Math.abs((fit.interceptStdError as number) - seIntercept)).toBeLessThanOrEqual(1e-7 * seIntercept + 1e-10)
       }),
       { seed: SEED + 1, numRuns: 300 },
     )

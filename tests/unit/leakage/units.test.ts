@@ -36,7 +36,10 @@ describe('unit factors', () => {
   })
 
   it('1 cfm is 0.47194745 L/s', () => {
-    expectRel(M3S_PER_CFM * 1000, 0.47194745, 1e-8) // CHECKS.md §1
+    // CHECKS.md §1 prints 0.47194745; the exact value 0.028316846592/60·1000 = 0.4719474432
+    // rounds to 0.47194744, so the printed figure is off by one in its last digit: 1e-7 here.
+    expectRel(M3S_PER_CFM * 1000, 0.47194745, 1e-7)
+    expect(M3S_PER_CFM * 1000).toBeCloseTo(0.4719474432, 12) // exact from CHECKS.md §1 ft³ factor
   })
 
   it('0.2 in. w.c. rounds to the 50 Pa test pressure', () => {
