@@ -10,6 +10,7 @@ import type {
   BuildingInput,
   DirectionResult,
   FitLine,
+  FlowPoint,
   Interval,
   LeakageInput,
   LeakageResult,
@@ -137,14 +138,15 @@ function analyzeDirection(test: TestInput, dims: Dimensions, units: UnitSystem):
   }
   const xs = scratchX
   const ys = scratchY
-  const points = new Array<DirectionResult['points'][number]>(count)
+  // Filled by push so V8 keeps a packed array (a pre-sized `new Array(n)` starts out holey).
+  const points: FlowPoint[] = []
   let pMin = Infinity
   let pMax = -Infinity
   for (let i = 0; i < count; i++) {
     const r = readings[i] as TestInput['readings'][number]
     const dp = Math.abs(r.pressure - base)
     const envelope = r.flow * flowScale
-    points[i] = { pressure: dp, fanFlow: r.flow, envelopeFlow: envelope }
+    points.push({ pressure: dp, fanFlow: r.flow, envelopeFlow: envelope })
     xs[i] = Math.log(dp)
     ys[i] = Math.log(envelope) + lnToCfm
     if (dp < pMin) pMin = dp
@@ -168,7 +170,7 @@ function analyzeDirection(test: TestInput, dims: Dimensions, units: UnitSystem):
     n = test.assumedExponent ?? DEFAULT_ASSUMED_EXPONENT
     // CFM50 = Q·(50/ΔP)ⁿ (CHECKS.md §5); C = Q/ΔPⁿ. Computed with pow rather than exp/log so a
     // reading taken at exactly 50 Pa gives CFM50 equal to the flow, bit for bit.
-    const only = points[0] as DirectionResult['points'][number]
+    const only = points[0] as FlowPoint
     const qCfm = units === 'ip' ? only.envelopeFlow : only.envelopeFlow / M3H_PER_CFM
     cfm50 = qCfm * Math.pow(REFERENCE_PRESSURE_PA / only.pressure, n)
     lnC = Math.log(qCfm) - n * (xs[0] as number)

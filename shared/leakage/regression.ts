@@ -100,8 +100,9 @@ export function fitPowerLaw(pressures: readonly number[], flows: readonly number
   return fitLogLog(x, y, count)
 }
 
-// Lanczos approximation, g = 7, 9 terms (Lanczos 1964; the coefficient set widely
-// reproduced, e.g. by Numerical Recipes 3rd ed. §6.1 style implementations; ~15 digits).
+// Lanczos approximation, g = 7, 9 terms (Lanczos 1964; this widely reproduced coefficient set
+// gives ~15 significant digits — coefficients from memory, checked in the tests against Γ(5) = 24
+// and Γ(½) = √π).
 const LANCZOS_G = 7
 const LANCZOS = [
   0.99999999999980993, 676.5203681218851, -1259.1392167224028, 771.32342877765313,
@@ -172,14 +173,15 @@ export function regularizedIncompleteBeta(x: number, a: number, b: number): numb
   return 1 - (Math.exp(lnFront) * betaContinuedFraction(b, a, 1 - x)) / b
 }
 
-// Upper tail P(T > t) for t ≥ 0: ½·I_{ν/(ν+t²)}(ν/2, ½) (Abramowitz & Stegun 26.7.1 with 26.5.27).
+// Upper tail P(T > t) for t ≥ 0: ½·I_{ν/(ν+t²)}(ν/2, ½) (Abramowitz & Stegun 26.7.1 and 26.5.27
+// — equation numbers from memory; the identity is the textbook one).
 function studentTUpperTail(t: number, df: number): number {
   return 0.5 * regularizedIncompleteBeta(df / (df + t * t), df / 2, 0.5)
 }
 
 /**
- * Student t cumulative distribution P(T ≤ t) with `df` degrees of freedom
- * (Abramowitz & Stegun 26.7.1, through the incomplete beta function, A&S 26.5.27).
+ * Student t cumulative distribution P(T ≤ t) with `df` degrees of freedom, through the
+ * regularized incomplete beta function (Abramowitz & Stegun 26.7.1 / 26.5.27 — numbers from memory).
  */
 export function studentTCdf(t: number, df: number): number {
   if (t === 0) return 0.5
@@ -187,14 +189,14 @@ export function studentTCdf(t: number, df: number): number {
   return t > 0 ? 1 - tail : tail
 }
 
-/** Student t density (A&S 26.7.1 integrand). */
+/** Student t density Γ((ν+1)/2)/(√(νπ)Γ(ν/2))·(1+t²/ν)^(−(ν+1)/2) (textbook definition; A&S 26.7.1 integrand). */
 export function studentTPdf(t: number, df: number): number {
   const lnNorm = lnGamma((df + 1) / 2) - lnGamma(df / 2) - 0.5 * Math.log(df * Math.PI)
   return Math.exp(lnNorm - ((df + 1) / 2) * Math.log1p((t * t) / df))
 }
 
-// Standard normal upper-tail quantile for 0 < q ≤ ½, A&S 26.2.23 (|error| < 4.5e-4): only a
-// starting point for Newton's method below.
+// Standard normal upper-tail quantile for 0 < q ≤ ½, A&S 26.2.23 — from memory
+// (|error| < 4.5e-4): only a starting point for Newton's method below.
 function normalUpperQuantileApprox(q: number): number {
   const s = Math.sqrt(-2 * Math.log(q))
   return s - (2.515517 + 0.802853 * s + 0.010328 * s * s) / (1 + 1.432788 * s + 0.189269 * s * s + 0.001308 * s * s * s)
@@ -203,9 +205,11 @@ function normalUpperQuantileApprox(q: number): number {
 /**
  * Quantile of the Student t distribution: the t with P(T ≤ t) = p, for 0 < p < 1, df > 0.
  *
- * Exact closed forms for df = 1 (Cauchy) and df = 2 (A&S 26.7.3-style inversion
- * t = (1−2q)/√(2q(1−q))); otherwise a Cornish–Fisher start (A&S 26.7.5) refined by Newton's
- * method on the exact tail (incomplete beta) inside a bisection bracket, to ~1e-14 relative.
+ * Closed forms for df = 1 (Cauchy: t = cot(πq)) and df = 2 (inverting the textbook CDF
+ * F(t) = ½ + t/(2√(2+t²)): t = (1−2q)/√(2q(1−q))), q = upper-tail probability; otherwise a
+ * Cornish–Fisher start (Abramowitz & Stegun 26.7.5 — equation number from memory) refined by
+ * Newton's method on the exact tail (incomplete beta) inside a bisection bracket, to ~1e-14
+ * relative. Cross-checked against jstat `studentt.inv` in the tests.
  */
 export function studentTQuantile(p: number, df: number): number {
   if (!(p > 0 && p < 1)) throw new RangeError('p must lie strictly between 0 and 1')

@@ -97,7 +97,8 @@ function pa(value: number): string {
 /**
  * Reading checks that need the direction and baseline: sign matches the direction (0 is not an
  * induced pressure and is rejected), adjusted magnitude within 1–100 Pa, no duplicate pressure.
- * Paths are relative to the test object.
+ * Paths are relative to the test object. The limits are product rules (issue 3), not taken
+ * from a standard; the sign convention is house relative to outdoors (CHECKS.md §5).
  */
 export function checkTestReadings(test: TestFields, ctx: IssueSink): void {
   const depress = test.direction === 'depressurization'
