@@ -22,7 +22,7 @@ describe('the app shell in a real browser', () => {
     await page.getByRole('button', { name: 'Sign in' }).click()
     await page.waitForURL(`${baseUrl}/`)
     await expect.poll(() => page.locator('[data-test=dashboard-title]').textContent()).toContain('Welcome, Tobias')
-    expect(await page.getByRole('navigation', { name: 'Main' }).getByRole('link').allTextContents()).toEqual(['Dashboard', 'Account'])
+    await expect.poll(() => page.getByRole('navigation', { name: 'Main' }).getByRole('link').allTextContents()).toEqual(['Dashboard', 'Calculator', 'Account'])
     await screenshot(page, 'rater-dashboard')
 
     await page.getByRole('button', { name: 'Sign out' }).click()
@@ -35,13 +35,13 @@ describe('the app shell in a real browser', () => {
 
   it('each role sees its own navigation; a rater sent to /admin/people lands on the dashboard', async () => {
     const expected: Record<string, string[]> = {
-      'admin@tightwell.test': ['Dashboard', 'People', 'Account'],
-      'reviewer@tightwell.test': ['Dashboard', 'Account'],
+      'admin@tightwell.test': ['Dashboard', 'Calculator', 'People', 'Account'],
+      'reviewer@tightwell.test': ['Dashboard', 'Calculator', 'Account'],
     }
     for (const [email, links] of Object.entries(expected)) {
       const page = await browser.newPage()
       await signInThroughPage(page, baseUrl, email)
-      expect(await page.getByRole('navigation', { name: 'Main' }).getByRole('link').allTextContents()).toEqual(links)
+      await expect.poll(() => page.getByRole('navigation', { name: 'Main' }).getByRole('link').allTextContents()).toEqual(links)
       await page.close()
     }
     const page = await browser.newPage()
