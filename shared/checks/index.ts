@@ -1,0 +1,2 @@
+export * from './judge'
+export * from './schema'
