@@ -39,6 +39,11 @@ export default defineNuxtConfig({
     },
   },
   typescript: { strict: true },
+  nitro: {
+    // The model limit tables in rules/ ship inside the server build (read by the demo seed and
+    // the "start from a model table" action): useStorage('assets:rules').
+    serverAssets: [{ baseName: 'rules', dir: resolve(projectRoot, 'rules') }],
+  },
   tailwindcss: { configPath: 'tailwind.config.ts', cssPath: false },
   hooks: {
     // The built server applies migrations at start, so it needs drizzle/ beside it.

@@ -1,2 +1,3 @@
 export * from './judge'
 export * from './schema'
+export * from './types'

@@ -7,8 +7,9 @@ import { evaluateRule, missingVariables, ruleTerms, type RuleInputs, type RuleLo
 import type { BuildingType, Comparison, RuleKind, RuleVariableName } from '../rules/variables'
 import { zoneNumber } from '../rules/zones'
 
-export const VERDICTS = ['complies', 'does-not-comply', 'borderline', 'no-rule'] as const
-export type Verdict = (typeof VERDICTS)[number]
+import type { Verdict } from './verdicts'
+
+export { VERDICTS, type Verdict } from './verdicts'
 
 /** Said with every verdict, in the page, the print view and the API. */
 export const CAUTION = 'Tightwell informs; it does not decide. The authority having jurisdiction decides which code edition and local amendments apply, who may test, and whether this result complies.'

@@ -37,6 +37,8 @@ export async function waitForHttp(url: string, timeoutMs = 30_000, child?: Child
 export interface RunningServer {
   url: string
   dataDir: string
+  /** The server's process id (benchmarks read its memory from /proc). */
+  pid: number | undefined
   stop: () => Promise<void>
   output: () => string
 }
@@ -72,6 +74,7 @@ export async function startBuiltServer(env: Record<string, string> = {}): Promis
   return {
     url,
     dataDir,
+    pid: child.pid,
     output: () => out,
     async stop() {
       if (child.exitCode === null) {

@@ -1,0 +1,85 @@
+import type { CheckResponse } from '#shared/checks'
+
+export interface CountyChoice { fips: string, name: string, weight: number | null }
+
+/** The self-check form: the calculator's fields plus address, permit date and building type. */
+export function useCheckForm() {
+  const leakage = useLeakageForm()
+  const where = reactive({
+    line1: '',
+    city: '',
+    state: '',
+    postalCode: '',
+    countyFips: '',
+    permitDate: '',
+    buildingType: 'detached' as 'detached' | 'attached',
+  })
+  const safety = ref<string[]>([])
+  const countyChoices = ref<CountyChoice[]>([])
+  const countyNote = ref('')
+  const response = ref<CheckResponse | null>(null)
+  const problem = ref('')
+  const problemField = ref<string>()
+  const busy = ref(false)
+
+  const body = computed(() => ({
+    ...leakage.request.value,
+    address: {
+      line1: where.line1,
+      city: where.city,
+      state: where.state,
+      postalCode: where.postalCode,
+      ...(where.countyFips ? { countyFips: where.countyFips } : {}),
+    },
+    permitDate: where.permitDate,
+    buildingType: where.buildingType,
+  }))
+
+  /** Suggests the county for a postal code; several counties → the user chooses. */
+  async function suggestCounty() {
+    countyChoices.value = []
+    countyNote.value = ''
+    if (!/^\d{5}$/.test(where.postalCode.trim())) return
+    try {
+      const place = await $fetch<{ state: string, city: string, counties: CountyChoice[] }>(`/api/places/postal-codes/${where.postalCode.trim()}`)
+      if (!where.state) where.state = place.state
+      if (!where.city) where.city = place.city
+      if (place.counties.length === 1) {
+        where.countyFips = place.counties[0]!.fips
+        countyNote.value = `${place.counties[0]!.name} County (${place.counties[0]!.fips}) — from the postal code. Change it if the address lies elsewhere.`
+      }
+      else {
+        countyChoices.value = place.counties
+        where.countyFips = ''
+        countyNote.value = `Postal code ${where.postalCode} spans ${place.counties.length} counties: choose the one the house is in.`
+      }
+    }
+    catch (e) {
+      countyNote.value = errorMessage(e, 'No county is known for this postal code; enter the county FIPS code.')
+    }
+  }
+
+  async function submit() {
+    problem.value = ''
+    problemField.value = undefined
+    busy.value = true
+    try {
+      response.value = await $fetch<CheckResponse>('/api/checks', { method: 'POST', body: body.value })
+    }
+    catch (e) {
+      response.value = null
+      const data = (e as { data?: { data?: { candidates?: CountyChoice[] } } }).data?.data
+      if (data?.candidates?.length) {
+        countyChoices.value = data.candidates
+        countyNote.value = `Postal code ${where.postalCode} spans ${data.candidates.length} counties: choose the one the house is in, then check again.`
+      }
+      problem.value = errorMessage(e)
+      problemField.value = errorField(e)
+    }
+    finally {
+      busy.value = false
+    }
+  }
+
+  return { ...leakage, where, safety, countyChoices, countyNote, response, problem, problemField, busy, body, suggestCounty, submit }
+}

@@ -1,0 +1,63 @@
+/**
+ * Throughput of the checker against the BUILT server (run `npm run build` first; this script
+ * builds nothing). autocannon, 50 connections, 10 s each, on loopback:
+ *   (a) GET /api/health — a bare JSON route
+ *   (b) POST /api/checks?dryRun=1 — the whole check, nothing stored
+ *   (c) POST /api/checks — the whole check, stored
+ * Prints requests/s, p99 latency, errors and the ratios (b)/(a), (c)/(a).
+ * Targets: (b) ≥ 50 % of (a), (c) ≥ 30 % of (a), p99 < 20 ms, zero errors.
+ */
+import { existsSync } from 'node:fs'
+import autocannon from 'autocannon'
+import { SERVER_ENTRY, startBuiltServer } from '../tests/support/server'
+
+const DURATION = Number(process.env.BENCH_SECONDS ?? 10)
+const CONNECTIONS = Number(process.env.BENCH_CONNECTIONS ?? 50)
+
+if (!existsSync(SERVER_ENTRY)) {
+  console.error('No build found: run `npm run build` first.')
+  process.exit(1)
+}
+
+// A demo house (SYNTHETIC): Kitsap County WA, 8-point depressurization test.
+const body = JSON.stringify({
+  units: 'ip',
+  building: { volume: 18000, floorArea: 2000, enclosureArea: 4340, height: 18 },
+  test: {
+    direction: 'depressurization',
+    baseline: { before: -0.8, after: -0.6 },
+    readings: [[10, 302], [15, 392], [20, 470], [25, 540], [30, 605], [40, 730], [50, 840], [60, 945]].map(([p, q]) => ({ pressure: -p!, flow: q! })),
+    insideTemperature: 68, outsideTemperature: 45,
+  },
+  address: { line1: '27 Cedar Loop Road', city: 'Port Alder', state: 'WA', postalCode: '98366', countyFips: '53035' },
+  permitDate: '2024-05-01',
+  buildingType: 'detached',
+})
+
+async function run(name: string, opts: autocannon.Options) {
+  const result = await autocannon({ connections: CONNECTIONS, duration: DURATION, ...opts })
+  const errors = result.errors + result.timeouts + result.non2xx
+  console.log(`${name.padEnd(34)} ${Math.round(result.requests.average).toLocaleString('en-US').padStart(8)} req/s   p99 ${String(result.latency.p99).padStart(4)} ms   errors ${errors}`)
+  return { rps: result.requests.average, p99: result.latency.p99, errors }
+}
+
+const server = await startBuiltServer({ TIGHTWELL_SIGNIN_MAX_PER_ADDRESS: '1000' })
+try {
+  const signIn = await fetch(`${server.url}/api/auth/sign-in`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email: 'rater@tightwell.test', password: 'tightwell-demo' }) })
+  const cookie = signIn.headers.getSetCookie().map(c => c.split(';')[0]).join('; ')
+  const headers = { 'content-type': 'application/json', cookie }
+  // Warm up: the ZIP data, the rulebook cache, the JIT.
+  for (let i = 0; i < 200; i++) await fetch(`${server.url}/api/checks?dryRun=1`, { method: 'POST', headers, body })
+
+  console.log(`Checker benchmark: ${CONNECTIONS} connections, ${DURATION} s each, Node ${process.version}, built server on loopback`)
+  const a = await run('(a) GET /api/health', { url: `${server.url}/api/health` })
+  const b = await run('(b) POST /api/checks?dryRun=1', { url: `${server.url}/api/checks?dryRun=1`, method: 'POST', headers, body })
+  const c = await run('(c) POST /api/checks (stored)', { url: `${server.url}/api/checks`, method: 'POST', headers, body })
+  const pct = (x: number) => `${((x / a.rps) * 100).toFixed(0)} %`
+  console.log(`(b)/(a) = ${pct(b.rps)} (target ≥ 50 %)   (c)/(a) = ${pct(c.rps)} (target ≥ 30 %)`)
+  const ok = b.rps >= a.rps * 0.5 && c.rps >= a.rps * 0.3 && Math.max(b.p99, c.p99) < 20 && a.errors + b.errors + c.errors === 0
+  console.log(ok ? 'OK: all targets met' : 'NOT MET: see the figures above')
+}
+finally {
+  await server.stop()
+}

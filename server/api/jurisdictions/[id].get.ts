@@ -1,0 +1,7 @@
+import { IdParams } from '#shared/schemas/rule-tables'
+
+export default defineEventHandler(async (event) => {
+  await requireUser(event)
+  const { id } = paramsAs(event, IdParams)
+  return jurisdictionDetail(id)
+})

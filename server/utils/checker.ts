@@ -1,0 +1,140 @@
+import type { H3Event } from 'h3'
+import type { User } from '#auth-utils'
+import { CAUTION, judge, type CheckNoRuleReason, type CheckRequest, type CheckResponse } from '../../shared/checks'
+import { analyzeLeakage } from '../../shared/leakage'
+import { ruleInWords } from '../../shared/rules/logic'
+
+/** 422: the address needs a choice the user must make (which county, which jurisdiction). */
+function needsChoice(field: string, message: string, candidates: unknown[]) {
+  return createError({ statusCode: 422, statusMessage: 'Unprocessable Entity', message: `${field}: ${message}`, data: { field, reason: message, candidates } })
+}
+
+interface County { fips: string, name: string | null }
+
+/** The county of the address: as given, or from the postal code (422 when it spans several). */
+async function countyOf(request: CheckRequest): Promise<County> {
+  const { address } = request
+  const place = await postalPlace(address.postalCode)
+  if (address.countyFips) {
+    const named = place?.counties.find(c => c.fips === address.countyFips)
+    return { fips: address.countyFips, name: named?.name ?? null }
+  }
+  if (!place) throw badRequest([{ field: 'address.postalCode', reason: `no county is known for postal code ${address.postalCode}; give address.countyFips` }])
+  if (place.state !== address.state) throw badRequest([{ field: 'address.postalCode', reason: `postal code ${address.postalCode} is in ${place.state}, not ${address.state}` }])
+  if (place.counties.length > 1) {
+    throw needsChoice('address.countyFips', `postal code ${address.postalCode} spans ${place.counties.length} counties (${place.counties.map(c => `${c.name} ${c.fips}`).join(', ')}); choose one`, place.counties)
+  }
+  return { fips: place.counties[0]!.fips, name: place.counties[0]!.name }
+}
+
+/**
+ * The whole check: the county of the address, the rules in force (from the cached rulebook), the
+ * result recomputed from the readings — never the client's arithmetic — and the verdict.
+ * Stored with its inputs, outputs and rule version unless `dryRun`.
+ */
+export async function runCheck(event: H3Event, user: User, request: CheckRequest, dryRun: boolean): Promise<CheckResponse> {
+  const county = await countyOf(request)
+  const resolved = await resolveRules({
+    jurisdictionId: request.jurisdictionId,
+    countyFips: county.fips,
+    stateCode: request.address.state,
+    postalCode: request.address.postalCode,
+    permitDate: request.permitDate,
+    buildingType: request.buildingType,
+  })
+  if (!resolved.ok) {
+    // A jurisdiction named by the user that does not exist or does not cover the address is bad input, not "no rule".
+    if (request.jurisdictionId !== undefined && resolved.reason === 'no-jurisdiction') throw badRequest([{ field: 'jurisdictionId', reason: resolved.message }])
+    if (request.jurisdictionId !== undefined && resolved.reason === 'county-not-covered') throw badRequest([{ field: 'address.countyFips', reason: resolved.message }])
+    if (resolved.reason === 'ambiguous-jurisdiction') throw needsChoice('jurisdictionId', resolved.message, resolved.candidates ?? [])
+  }
+
+  const metrics = analyzeLeakage(request)
+  const checkedAt = new Date()
+  let response: CheckResponse
+  if (resolved.ok) {
+    const judgement = judge({
+      result: metrics,
+      building: request.building,
+      units: request.units,
+      buildingType: request.buildingType,
+      zone: resolved.zone,
+      rules: resolved.rules.map(r => ({ key: r.key, kind: r.kind, logic: r.logic, summary: r.summary || ruleInWords(r.logic), citation: citationOf(r) })),
+    })
+    const noRule = judgement.noRuleReason ? { reason: judgement.noRuleReason as CheckNoRuleReason, message: noRuleMessage(judgement.noRuleReason, judgement.rules) } : null
+    response = {
+      checkId: null,
+      verdict: judgement.verdict,
+      noRule,
+      jurisdiction: { id: resolved.jurisdiction.id, name: resolved.jurisdiction.name },
+      county,
+      zone: resolved.zone,
+      zoneMap: { id: resolved.zoneMap.id, name: resolved.zoneMap.name },
+      edition: resolved.edition,
+      ruleSetVersion: resolved.ruleSetVersion,
+      rules: judgement.rules,
+      advisories: judgement.advisories,
+      maxCfm50: judgement.maxCfm50,
+      metrics,
+      caution: CAUTION,
+      checkedAt: checkedAt.toISOString(),
+      checkedBy: { id: user.id, name: user.name },
+      request,
+    }
+  }
+  else {
+    response = {
+      checkId: null,
+      verdict: 'no-rule',
+      noRule: { reason: resolved.reason, message: `${resolved.message} Tightwell cannot check this result; this is not a pass.` },
+      jurisdiction: null,
+      county,
+      zone: null,
+      zoneMap: null,
+      edition: null,
+      ruleSetVersion: null,
+      rules: [],
+      advisories: [],
+      maxCfm50: null,
+      metrics,
+      caution: CAUTION,
+      checkedAt: checkedAt.toISOString(),
+      checkedBy: { id: user.id, name: user.name },
+      request,
+    }
+  }
+  if (dryRun) return response
+
+  response.checkId = await recordCheck({
+    userId: user.id,
+    createdAt: checkedAt,
+    verdict: response.verdict,
+    jurisdictionId: response.jurisdiction?.id ?? null,
+    ruleSetVersionId: response.ruleSetVersion?.id ?? null,
+    zone: response.zone,
+    countyFips: county.fips,
+    addressLine: request.address.line1,
+    city: request.address.city,
+    stateCode: request.address.state,
+    postalCode: request.address.postalCode,
+    permitDate: request.permitDate,
+    buildingType: request.buildingType,
+    cfm50: metrics.cfm50,
+    ach50: metrics.ach50,
+    request: JSON.stringify(request),
+    response: JSON.stringify({ ...response, checkId: undefined }),
+  })
+  return response
+}
+
+function citationOf(rule: { citationCode: string, citationEdition: string, citationSection: string }): string {
+  return [rule.citationCode, rule.citationEdition, rule.citationSection].filter(Boolean).join(' ')
+}
+
+function noRuleMessage(reason: 'no-matching-rule' | 'missing-input', rules: { missing: string[], summary: string }[]): string {
+  if (reason === 'missing-input') {
+    const missing = [...new Set(rules.flatMap(r => r.missing))]
+    return `The rule in force needs ${missing.join(', ')}, which this check lacks (add the building's areas). Tightwell cannot decide; this is not a pass.`
+  }
+  return 'No limit rule applies to this zone and building type. Tightwell cannot decide; this is not a pass.'
+}
