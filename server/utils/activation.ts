@@ -13,5 +13,6 @@ export async function setActive(event: H3Event, active: boolean) {
   }
   const db = await useDb()
   const [updated] = await db.update(users).set({ active }).where(eq(users.id, id)).returning()
+  userChanged(id)
   return publicUser(updated!)
 }

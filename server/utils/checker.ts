@@ -41,7 +41,7 @@ export async function runCheck(event: H3Event, user: User, request: CheckRequest
     postalCode: request.address.postalCode,
     permitDate: request.permitDate,
     buildingType: request.buildingType,
-  })
+  }, typeof event.context.rulebookGeneration === 'number' ? event.context.rulebookGeneration : undefined)
   if (!resolved.ok) {
     // A jurisdiction named by the user that does not exist or does not cover the address is bad input, not "no rule".
     if (request.jurisdictionId !== undefined && resolved.reason === 'no-jurisdiction') throw badRequest([{ field: 'jurisdictionId', reason: resolved.message }])

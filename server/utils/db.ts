@@ -39,11 +39,18 @@ async function open(): Promise<Db> {
     if (path && path !== ':memory:') mkdirSync(dirname(resolve(path)), { recursive: true })
   }
   // `timeout` is SQLite's busy timeout for file databases (ms).
-  client = createClient({ url, authToken: process.env.NUXT_DATABASE_AUTH_TOKEN || undefined, timeout: 5000 })
+  // A file database gets ONE connection: libSQL's calls are synchronous on this thread, so more
+  // connections add no parallelism, and per-connection settings (below) then hold for every query.
+  // All multi-statement writes use db.batch (no interactive transactions that would hold it).
+  client = createClient({ url, authToken: process.env.NUXT_DATABASE_AUTH_TOKEN || undefined, timeout: 5000, ...(isFile ? { concurrency: 1 } : {}) })
   if (isFile) {
     // WAL lets readers work while one writer commits; it is a property of the file, set once.
     await client.execute('PRAGMA journal_mode = WAL')
     await client.execute('PRAGMA foreign_keys = ON')
+    // In WAL mode NORMAL never corrupts the file; it fsyncs at checkpoints rather than at every
+    // commit, so a power cut (not a process crash) may lose the last moments of commits.
+    // TIGHTWELL_SYNCHRONOUS=FULL restores an fsync per commit.
+    await client.execute(`PRAGMA synchronous = ${process.env.TIGHTWELL_SYNCHRONOUS === 'FULL' ? 'FULL' : 'NORMAL'}`)
   }
   const db = drizzle(client, { schema, casing: 'snake_case' })
   await migrate(db, { migrationsFolder: migrationsFolder() })
@@ -61,6 +68,12 @@ export function useDb(): Promise<Db> {
     throw error
   })
   return ready
+}
+
+/** The raw libSQL client, for the few hot-path reads that skip the query builder. */
+export async function useClient(): Promise<Client> {
+  await useDb()
+  return client!
 }
 
 /** For tests and shutdown. */

@@ -164,8 +164,9 @@ async function build(generation: number): Promise<Rulebook> {
 }
 
 /** The rulebook for the current generation, rebuilt when another process (or this one) changed the tables. */
-export async function rulebook(): Promise<Rulebook> {
-  const generation = await currentGeneration()
+export async function rulebook(known?: number): Promise<Rulebook> {
+  // A caller that already read the generation (requireUser does, in the same query) passes it in.
+  const generation = known ?? await currentGeneration()
   if (cached && cached.generation === generation) return cached
   if (!building) {
     building = build(generation).then((book) => {
@@ -214,8 +215,8 @@ function pickJurisdiction(book: Rulebook, input: ResolveInput): CachedJurisdicti
  * the jurisdiction's), and the rules of the rule set's latest published version for that zone
  * and building type. Or a typed reason why not.
  */
-export async function resolveRules(input: ResolveInput): Promise<ResolveResult> {
-  const book = await rulebook()
+export async function resolveRules(input: ResolveInput, generation?: number): Promise<ResolveResult> {
+  const book = await rulebook(generation)
   const picked = pickJurisdiction(book, input)
   if ('ok' in picked) return picked
   const j = picked

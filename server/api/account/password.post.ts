@@ -14,5 +14,6 @@ export default defineEventHandler(async (event) => {
   }
   const db = await useDb()
   await db.update(users).set({ passwordHash: await hashPassword(newPassword) }).where(eq(users.id, user.id))
+  userChanged(user.id)
   return { ok: true }
 })

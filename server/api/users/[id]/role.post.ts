@@ -13,5 +13,6 @@ export default defineEventHandler(async (event) => {
   const jurisdictionId = await checkJurisdictionFor(body.role, body.jurisdictionId === undefined ? row.jurisdictionId : body.jurisdictionId)
   const db = await useDb()
   const [updated] = await db.update(users).set({ role: body.role, jurisdictionId }).where(eq(users.id, id)).returning()
+  userChanged(id)
   return publicUser(updated!)
 })
