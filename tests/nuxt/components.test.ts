@@ -21,4 +21,15 @@ describe('shell components', () => {
     expect(navigationFor('admin').map(i => i.label)).toContain('People')
     expect(navigationFor('rater').map(i => i.label)).not.toContain('People')
   })
+
+  it('marks the right entry current: "My checks" is not current on the self-check form; rule pages share one entry', () => {
+    const items = navigationFor('rater')
+    const current = (path: string) => items.filter(i => isCurrentNav(i, path)).map(i => i.label)
+    expect(current('/checks/new')).toEqual(['Self-check'])
+    expect(current('/checks')).toEqual(['My checks'])
+    expect(current('/checks/12')).toEqual(['My checks'])
+    expect(current('/zone-maps/3')).toEqual(['Rule tables'])
+    expect(current('/')).toEqual(['Dashboard'])
+    expect(current('/calculatorx')).toEqual([])
+  })
 })
