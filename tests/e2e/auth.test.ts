@@ -49,7 +49,11 @@ describe('sign-in and sessions', () => {
 
 describe('sign-in limit', () => {
   it('the 11th wrong password for one e-mail answers 429 with Retry-After, even with the right password', async () => {
-    const email = 'rater2@tightwell.test'
+    // A throwaway account: the server is shared by every e2e file, so no demo account gets locked.
+    const admin = new Client(undefined, freshAddress())
+    await admin.signIn('admin@tightwell.test')
+    const email = 'locked.out@tightwell.test'
+    expect((await admin.post('/api/users', { email, name: 'Ottilie Marchbank', role: 'rater', password: 'tightwell-demo' })).status).toBe(201)
     for (let i = 0; i < 10; i++) {
       // A new client address each time: the per-e-mail limit alone must trigger.
       const res = await new Client(undefined, freshAddress()).post('/api/auth/sign-in', { email, password: `wrong-${i}` })

@@ -235,6 +235,13 @@ describe('zone-map CSV: bad input is a clear per-row error and nothing is writte
     expect(await rows(c, mapId)).toEqual(before)
   })
 
+  it('the limit is on the CSV, not on its JSON escaping: 3 MB of quotes (6 MB as JSON) is read, then refused per row', async () => {
+    const csv = `county_fips,zone,county_name\n53035,5C,"${'""'.repeat(1_500_000)}"\n`
+    const res = await importCsv(c, mapId, csv)
+    expect(res.status).toBe(400)
+    expect(res.body.data.problems[0]).toEqual({ line: 2, column: 'county_name', reason: 'is longer than 100 characters' })
+  })
+
   it('a bad mode or body is a 400 naming the field', async () => {
     const res = await c.post(`/api/zone-maps/${mapId}/import`, { mode: 'append', csv: 'x' })
     expect(res.status).toBe(400)
