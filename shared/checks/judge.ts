@@ -3,7 +3,7 @@
  * Pure TypeScript (runs on the server for the record and could run in the page for a preview).
  */
 import { TARGET_METRICS, areaToFt2, solveTarget, volumeToFt3, type BuildingInput, type LeakageResult, type TargetMetric, type UnitSystem } from '../leakage'
-import { evaluateRule, missingVariables, ruleTerms, type RuleInputs, type RuleLogic, type RuleTerm } from '../rules/logic'
+import { evaluateRule, missingVariables, roundSignificant, ruleTerms, type RuleInputs, type RuleLogic, type RuleTerm, type RuleTerms } from '../rules/logic'
 import type { BuildingType, Comparison, RuleKind, RuleVariableName } from '../rules/variables'
 import { zoneNumber } from '../rules/zones'
 
@@ -91,6 +91,49 @@ function scaledInputs(inputs: RuleInputs, cfm50: number): RuleInputs {
   return out
 }
 
+const termsCache = new WeakMap<object, RuleTerms>()
+/** ruleTerms, read once per (frozen, reused) rule object. */
+function termsOf(logic: RuleLogic): RuleTerms {
+  let terms = termsCache.get(logic)
+  if (!terms) {
+    terms = ruleTerms(logic)
+    termsCache.set(logic, terms)
+  }
+  return terms
+}
+
+function compare(a: number, op: Comparison, b: number): boolean {
+  switch (op) {
+    case '<': return a < b
+    case '<=': return a <= b
+    case '>': return a > b
+    case '>=': return a >= b
+    case '==': return a === b
+    case '!=': return a !== b
+  }
+}
+
+/**
+ * The rule's answer without the json-logic interpreter, for the shapes nearly every code limit
+ * has: one comparison of a metric with a number, or alternatives / all-of such comparisons. Same
+ * semantics as evaluateRule (10-significant-figure tolerance; a missing value never meets), which
+ * a property test checks; other shapes go to evaluateRule.
+ */
+export function evaluate(logic: RuleLogic, inputs: RuleInputs): boolean {
+  const { combinator, terms } = termsOf(logic)
+  if (combinator === 'complex' || terms.length === 0) return evaluateRule(logic, inputs)
+  let any = false
+  let all = true
+  for (const t of terms) {
+    const v = inputs[t.metric]
+    // A missing value is NaN, as in evaluateRule: it fails every comparison but "≠".
+    const ok = compare(typeof v === 'number' ? roundSignificant(v) : Number.NaN, t.comparison, roundSignificant(t.limit))
+    any ||= ok
+    all &&= ok
+  }
+  return combinator === 'and' ? all : any
+}
+
 function isUpper(c: Comparison) { return c === '<' || c === '<=' }
 function isLower(c: Comparison) { return c === '>' || c === '>=' }
 
@@ -113,14 +156,14 @@ function termMaxCfm50(term: RuleTerm, building: BuildingInput, units: UnitSystem
  * less), which assumes more leakage never turns a failing rule into a passing one.
  */
 export function maxCfm50For(logic: RuleLogic, inputs: RuleInputs, building: BuildingInput, units: UnitSystem): number | null {
-  const { combinator, terms } = ruleTerms(logic)
+  const { combinator, terms } = termsOf(logic)
   if (combinator !== 'complex' && terms.length > 0) {
     const maxima = terms.map(t => termMaxCfm50(t, building, units))
     if (maxima.every((m): m is number => m !== null)) {
       return combinator === 'and' ? Math.min(...maxima) : Math.max(...maxima)
     }
   }
-  const passesAt = (c: number) => evaluateRule(logic, scaledInputs(inputs, c))
+  const passesAt = (c: number) => evaluate(logic, scaledInputs(inputs, c))
   if (typeof inputs.cfm50 !== 'number' || !passesAt(1e-9)) return null
   let hi = Math.max(inputs.cfm50, 1)
   for (let i = 0; passesAt(hi); i++) {
@@ -137,8 +180,8 @@ export function maxCfm50For(logic: RuleLogic, inputs: RuleInputs, building: Buil
 }
 
 function outcomeOf(rule: JudgedRuleInput, inputs: RuleInputs, interval: [number, number] | null, building: BuildingInput, units: UnitSystem): RuleOutcome {
-  const passes = evaluateRule(rule.logic, inputs)
-  const { combinator, terms } = ruleTerms(rule.logic)
+  const passes = evaluate(rule.logic, inputs)
+  const { combinator, terms } = termsOf(rule.logic)
   const scored = terms
     .map((term) => {
       const value = inputs[term.metric]
@@ -155,7 +198,7 @@ function outcomeOf(rule: JudgedRuleInput, inputs: RuleInputs, interval: [number,
       })
   let borderline = false
   if (passes && interval && rule.kind === 'limit') {
-    borderline = !evaluateRule(rule.logic, scaledInputs(inputs, interval[0])) || !evaluateRule(rule.logic, scaledInputs(inputs, interval[1]))
+    borderline = !evaluate(rule.logic, scaledInputs(inputs, interval[0])) || !evaluate(rule.logic, scaledInputs(inputs, interval[1]))
   }
   return {
     id: rule.key,

@@ -110,8 +110,21 @@ function formatItem(item: ZoneSpecItem): string {
 }
 
 /** Does a zone spec (text or parsed) cover a zone? An unparseable spec covers nothing. */
+const parsedSpecs = new Map<string, ZoneSpecItem[]>()
+/** A spec's items, parsed once per distinct text (the checker asks for every rule on every check). */
+function itemsOf(spec: string): ZoneSpecItem[] {
+  let items = parsedSpecs.get(spec)
+  if (!items) {
+    const r = parseZoneSpec(spec)
+    items = r.ok ? r.items : []
+    if (parsedSpecs.size >= 1000) parsedSpecs.clear()
+    parsedSpecs.set(spec, items)
+  }
+  return items
+}
+
 export function zoneMatches(spec: string | ZoneSpecItem[], zone: string): boolean {
-  const items = typeof spec === 'string' ? (() => { const r = parseZoneSpec(spec); return r.ok ? r.items : [] })() : spec
+  const items = typeof spec === 'string' ? itemsOf(spec) : spec
   if (!isClimateZone(zone)) return false
   const n = zoneNumber(zone)
   return items.some((item) => {

@@ -162,3 +162,19 @@ describe('check request schema', () => {
     expect(CAUTION).toMatch(/authority having jurisdiction decides/)
   })
 })
+
+describe('the interpreter-free evaluation agrees with json-logic (fast-check, seeded)', () => {
+  it('for single comparisons and alternatives / all-of, in either operand order, with missing values', async () => {
+    const fc = (await import('fast-check')).default
+    const { evaluate } = await import('#shared/checks')
+    const { evaluateRule } = await import('#shared/rules/logic')
+    const metric = fc.constantFrom('ach50', 'cfm50', 'cfm50PerEnclosureArea', 'airPermeability50', 'n50')
+    const op = fc.constantFrom('<', '<=', '>', '>=', '==', '!=')
+    const limit = fc.oneof(fc.double({ min: 0.01, max: 5000, noNaN: true }), fc.constantFrom(3, 0.28, 5, 7))
+    const term = fc.tuple(metric, op, limit, fc.boolean()).map(([m, o, l, flipped]) => ({ [o]: flipped ? [l, { var: m }] : [{ var: m }, l] }))
+    const logic = fc.oneof(term, fc.array(term, { minLength: 1, maxLength: 3 }).map(ts => ({ or: ts })), fc.array(term, { minLength: 1, maxLength: 3 }).map(ts => ({ and: ts })))
+    const value = fc.oneof(fc.double({ min: 0, max: 6000, noNaN: true }), fc.constant(null), fc.constantFrom(3, 0.28, 900 * 60 / 18000, 1215.2 / 4340))
+    const inputs = fc.record({ ach50: value, cfm50: value, cfm50PerEnclosureArea: value, airPermeability50: value, n50: value })
+    fc.assert(fc.property(logic, inputs, (l, i) => evaluate(l as never, i) === evaluateRule(l as never, i)), { seed: 4242, numRuns: 3000 })
+  })
+})
