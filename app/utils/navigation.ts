@@ -13,12 +13,15 @@ export interface NavItem {
 export function navigationFor(role: Role): NavItem[] {
   const items: NavItem[] = [
     { to: '/', label: 'Dashboard' },
+    // The filing work comes first: raters keep projects and file them, reviewers work the queue.
+    ...(role === 'reviewer' ? [] : [{ to: '/projects', label: 'Projects', section: ['/tests'] }]),
+    role === 'reviewer' ? { to: '/filings', label: 'Review queue' } : { to: '/filings', label: 'Filings' },
     { to: '/checks/new', label: 'Self-check' },
     { to: '/checks', label: 'My checks', except: ['/checks/new'] },
     { to: '/calculator', label: 'Calculator' },
     { to: '/jurisdictions', label: 'Rule tables', section: ['/zone-maps', '/rule-sets'] },
   ]
-  if (role === 'admin') items.push({ to: '/admin/people', label: 'People' })
+  if (role === 'admin') items.push({ to: '/admin/people', label: 'People' }, { to: '/admin/outbox', label: 'Outbox' })
   items.push({ to: '/account', label: 'Account' })
   return items
 }

@@ -3,6 +3,8 @@ import { type AnySQLiteColumn, index, integer, primaryKey, real, sqliteTable, te
 import { JURISDICTION_KINDS, ROLES } from '../../shared/types/roles'
 import { BUILDING_TYPES, RULE_BUILDING_TYPES, RULE_KINDS } from '../../shared/rules/variables'
 import { VERDICTS } from '../../shared/checks/verdicts'
+import { MAIL_KINDS, MAIL_STATUSES, TEST_STAGES, UPLOAD_KINDS, WIND_CONDITIONS } from '../../shared/filings/constants'
+import { FILING_ACTIONS, FILING_STATES } from '../../shared/filings/states'
 
 const timestamps = {
   createdAt: integer({ mode: 'timestamp_ms' }).notNull().$defaultFn(() => new Date()),
@@ -214,3 +216,225 @@ export const checks = sqliteTable('checks', {
 }, t => [index('checks_user_idx').on(t.userId, t.id)])
 
 export type CheckRow = typeof checks.$inferSelect
+
+/**
+ * A house a rater tests over time (rough-in, final, retests). Address and permit decide the
+ * rules; the building's geometry is in the project's units (ft/ft²/ft³ or m/m²/m³).
+ */
+export const projects = sqliteTable('projects', {
+  id: integer().primaryKey({ autoIncrement: true }),
+  ownerId: integer().notNull().references(() => users.id, { onDelete: 'restrict' }),
+  /** Chosen by the rater only when several jurisdictions cover the county. */
+  jurisdictionId: integer().references(() => jurisdictions.id, { onDelete: 'set null' }),
+  addressLine: text().notNull(),
+  city: text().notNull(),
+  stateCode: text().notNull(),
+  postalCode: text().notNull(),
+  countyFips: text().notNull(),
+  permitNumber: text().notNull(),
+  permitDate: text().notNull(),
+  builderCompany: text().notNull().default(''),
+  builderContact: text().notNull().default(''),
+  buildingType: text({ enum: BUILDING_TYPES }).notNull(),
+  units: text({ enum: ['ip', 'si'] }).notNull(),
+  volume: real().notNull(),
+  floorArea: real(),
+  enclosureArea: real(),
+  height: real(),
+  notes: text().notNull().default(''),
+  ...timestamps,
+}, t => [index('projects_owner_idx').on(t.ownerId, t.updatedAt)])
+
+/** One blower-door test of a project, with its stored check (verdict, metrics, rule version). */
+export const testRecords = sqliteTable('test_records', {
+  id: integer().primaryKey({ autoIncrement: true }),
+  projectId: integer().notNull().references(() => projects.id, { onDelete: 'cascade' }),
+  testedOn: text().notNull(),
+  stage: text({ enum: TEST_STAGES }).notNull(),
+  tester: text().notNull().default(''),
+  equipment: text().notNull().default(''),
+  wind: text({ enum: WIND_CONDITIONS }).notNull(),
+  insideTemperature: real(),
+  outsideTemperature: real(),
+  direction: text({ enum: ['depressurization', 'pressurization'] }).notNull(),
+  baselineBefore: real(),
+  baselineAfter: real(),
+  /** [{ pressure, flow }] as JSON, in the project's units. */
+  readings: text().notNull().default('[]'),
+  assumedExponent: real(),
+  /** The safety checklist ids ticked, JSON. */
+  safety: text().notNull().default('[]'),
+  statedCfm50: real(),
+  statedAch50: real(),
+  notes: text().notNull().default(''),
+  // The stored check of the current readings (null without readings or when it could not run).
+  verdict: text({ enum: VERDICTS }),
+  cfm50: real(),
+  ach50: real(),
+  ruleSetVersionId: integer().references(() => ruleSetVersions.id, { onDelete: 'restrict' }),
+  checkedAt: integer({ mode: 'timestamp_ms' }),
+  /** The whole CheckResponse, JSON. */
+  check: text(),
+  checkProblem: text(),
+  ...timestamps,
+}, t => [index('test_records_project_idx').on(t.projectId, t.testedOn)])
+
+/**
+ * A test filed with its jurisdiction. `version` counts every change of state: a decision names
+ * the version it was made on, and a conditional UPDATE refuses it when the filing moved (409).
+ * The columns after `revision` copy the current revision's key figures for the review queue, so
+ * the queue sorts and filters on indexed columns of this one table.
+ */
+export const filings = sqliteTable('filings', {
+  id: integer().primaryKey({ autoIncrement: true }),
+  testId: integer().notNull().references(() => testRecords.id, { onDelete: 'restrict' }),
+  projectId: integer().notNull().references(() => projects.id, { onDelete: 'restrict' }),
+  raterId: integer().notNull().references(() => users.id, { onDelete: 'restrict' }),
+  jurisdictionId: integer().notNull().references(() => jurisdictions.id, { onDelete: 'restrict' }),
+  status: text({ enum: FILING_STATES }).notNull(),
+  version: integer().notNull().default(1),
+  /** Set by each state change; the rows written with it (transition, revision, mail) carry a guard on it. */
+  changeToken: text().notNull(),
+  revision: integer().notNull().default(0),
+  reviewerId: integer().references(() => users.id, { onDelete: 'set null' }),
+  reviewerName: text(),
+  returnReason: text(),
+  firstSubmittedAt: integer({ mode: 'timestamp_ms' }),
+  submittedAt: integer({ mode: 'timestamp_ms' }),
+  decidedAt: integer({ mode: 'timestamp_ms' }),
+  addressLine: text().notNull(),
+  city: text().notNull(),
+  permitNumber: text().notNull(),
+  permitDate: text().notNull(),
+  raterName: text().notNull(),
+  stage: text({ enum: TEST_STAGES }).notNull(),
+  testedOn: text().notNull(),
+  zone: text(),
+  verdict: text({ enum: VERDICTS }),
+  cfm50: real(),
+  ach50: real(),
+  ...timestamps,
+}, t => [
+  uniqueIndex('filings_test_unique').on(t.testId),
+  index('filings_rater_idx').on(t.raterId, t.updatedAt),
+  index('filings_project_idx').on(t.projectId),
+  // The review queue: one index per sort within a jurisdiction, and per filter + default sort.
+  index('filings_queue_submitted_idx').on(t.jurisdictionId, t.submittedAt),
+  index('filings_queue_status_idx').on(t.jurisdictionId, t.status, t.submittedAt),
+  // Counting a filtered queue (status, verdict, zone, rater in any mix) from the index alone.
+  index('filings_queue_count_idx').on(t.jurisdictionId, t.status, t.verdict, t.zone, t.raterId),
+  index('filings_queue_verdict_idx').on(t.jurisdictionId, t.verdict, t.submittedAt),
+  index('filings_queue_zone_idx').on(t.jurisdictionId, t.zone, t.submittedAt),
+  index('filings_queue_rater_idx').on(t.jurisdictionId, t.raterId, t.submittedAt),
+  index('filings_queue_permit_idx').on(t.jurisdictionId, t.permitDate),
+  index('filings_queue_address_idx').on(t.jurisdictionId, t.addressLine),
+  index('filings_queue_ach50_idx').on(t.jurisdictionId, t.ach50),
+  index('filings_submitted_idx').on(t.submittedAt),
+])
+
+/** Each submission frozen: the project, test and files as filed, and the check made then. */
+export const filingRevisions = sqliteTable('filing_revisions', {
+  id: integer().primaryKey({ autoIncrement: true }),
+  filingId: integer().notNull().references(() => filings.id, { onDelete: 'cascade' }),
+  number: integer().notNull(),
+  /** FilingSnapshot, JSON. */
+  snapshot: text().notNull(),
+  /** The CheckResponse at submission, JSON. */
+  check: text().notNull(),
+  verdict: text({ enum: VERDICTS }).notNull(),
+  ruleSetVersionId: integer().references(() => ruleSetVersions.id, { onDelete: 'restrict' }),
+  submittedById: integer().references(() => users.id, { onDelete: 'set null' }),
+  submittedByName: text().notNull(),
+  submittedAt: integer({ mode: 'timestamp_ms' }).notNull(),
+}, t => [uniqueIndex('filing_revisions_number_unique').on(t.filingId, t.number)])
+
+/** Every change of state, on the record: who, when, from, to, and the note (a return's reason). */
+export const filingTransitions = sqliteTable('filing_transitions', {
+  id: integer().primaryKey({ autoIncrement: true }),
+  filingId: integer().notNull().references(() => filings.id, { onDelete: 'cascade' }),
+  action: text({ enum: FILING_ACTIONS }).notNull(),
+  fromState: text({ enum: FILING_STATES }),
+  toState: text({ enum: FILING_STATES }).notNull(),
+  userId: integer().references(() => users.id, { onDelete: 'set null' }),
+  userName: text().notNull(),
+  note: text().notNull().default(''),
+  revision: integer(),
+  at: integer({ mode: 'timestamp_ms' }).notNull(),
+}, t => [index('filing_transitions_filing_idx').on(t.filingId, t.at)])
+
+export const filingComments = sqliteTable('filing_comments', {
+  id: integer().primaryKey({ autoIncrement: true }),
+  filingId: integer().notNull().references(() => filings.id, { onDelete: 'cascade' }),
+  userId: integer().references(() => users.id, { onDelete: 'set null' }),
+  userName: text().notNull(),
+  role: text({ enum: ROLES }).notNull(),
+  body: text().notNull(),
+  at: integer({ mode: 'timestamp_ms' }).notNull().$defaultFn(() => new Date()),
+}, t => [index('filing_comments_filing_idx').on(t.filingId, t.at)])
+
+/**
+ * A file attached to a test (readings CSV, photo, PDF). The bytes live in useStorage('uploads')
+ * under `storageKey`, generated here and never derived from the user's file name.
+ */
+export const uploads = sqliteTable('uploads', {
+  id: integer().primaryKey({ autoIncrement: true }),
+  projectId: integer().notNull().references(() => projects.id, { onDelete: 'cascade' }),
+  testId: integer().references(() => testRecords.id, { onDelete: 'cascade' }),
+  storageKey: text().notNull(),
+  kind: text({ enum: UPLOAD_KINDS }).notNull(),
+  contentType: text().notNull(),
+  /** The display name, sanitised (last path segment only). */
+  name: text().notNull(),
+  size: integer().notNull(),
+  sha256: text().notNull(),
+  uploadedById: integer().references(() => users.id, { onDelete: 'set null' }),
+  createdAt: integer({ mode: 'timestamp_ms' }).notNull().$defaultFn(() => new Date()),
+}, t => [uniqueIndex('uploads_key_unique').on(t.storageKey), index('uploads_test_idx').on(t.testId), index('uploads_project_idx').on(t.projectId)])
+
+/** The certificate of an accepted filing; `code` is what /verify/<code> looks up. */
+export const certificates = sqliteTable('certificates', {
+  id: integer().primaryKey({ autoIncrement: true }),
+  filingId: integer().notNull().references(() => filings.id, { onDelete: 'cascade' }),
+  code: text().notNull(),
+  /** CertificateData, JSON: what the page and the PDF print, frozen at acceptance. */
+  data: text().notNull(),
+  issuedAt: integer({ mode: 'timestamp_ms' }).notNull(),
+}, t => [uniqueIndex('certificates_code_unique').on(t.code), uniqueIndex('certificates_filing_unique').on(t.filingId)])
+
+/**
+ * Mail to send, written in the same transaction as the decision it announces (so a decision never
+ * exists without its notice, and a failed send never undoes a decision). A worker sends and retries.
+ */
+export const mailOutbox = sqliteTable('mail_outbox', {
+  id: integer().primaryKey({ autoIncrement: true }),
+  kind: text({ enum: MAIL_KINDS }).notNull(),
+  toAddress: text().notNull(),
+  subject: text().notNull(),
+  body: text().notNull(),
+  filingId: integer().references(() => filings.id, { onDelete: 'set null' }),
+  status: text({ enum: MAIL_STATUSES }).notNull().default('queued'),
+  attempts: integer().notNull().default(0),
+  nextAttemptAt: integer({ mode: 'timestamp_ms' }).notNull(),
+  claimedAt: integer({ mode: 'timestamp_ms' }),
+  lastError: text(),
+  messageId: text(),
+  sentAt: integer({ mode: 'timestamp_ms' }),
+  createdAt: integer({ mode: 'timestamp_ms' }).notNull().$defaultFn(() => new Date()),
+}, t => [index('mail_outbox_due_idx').on(t.status, t.nextAttemptAt), index('mail_outbox_created_idx').on(t.createdAt)])
+
+/** What the local capture SMTP server received (demo and tests only), raw RFC 5322. */
+export const mailCaptures = sqliteTable('mail_captures', {
+  id: integer().primaryKey({ autoIncrement: true }),
+  messageId: text(),
+  envelopeFrom: text().notNull(),
+  envelopeTo: text().notNull(),
+  raw: text().notNull(),
+  receivedAt: integer({ mode: 'timestamp_ms' }).notNull().$defaultFn(() => new Date()),
+}, t => [index('mail_captures_message_idx').on(t.messageId)])
+
+export type ProjectRow = typeof projects.$inferSelect
+export type TestRecordRow = typeof testRecords.$inferSelect
+export type FilingRow = typeof filings.$inferSelect
+export type FilingRevisionRow = typeof filingRevisions.$inferSelect
+export type UploadRow = typeof uploads.$inferSelect
+export type MailOutboxRow = typeof mailOutbox.$inferSelect

@@ -3,16 +3,17 @@ import type { User } from '#auth-utils'
 import { CAUTION, judge, type CheckNoRuleReason, type CheckRequest, type CheckResponse } from '../../shared/checks'
 import { analyzeLeakage } from '../../shared/leakage'
 import { ruleInWords } from '../../shared/rules/logic'
+import type { ResolveResult } from './rulebook'
 
 /** 422: the address needs a choice the user must make (which county, which jurisdiction). */
-function needsChoice(field: string, message: string, candidates: unknown[]) {
+export function needsChoice(field: string, message: string, candidates: unknown[]) {
   return createError({ statusCode: 422, statusMessage: 'Unprocessable Entity', message: `${field}: ${message}`, data: { field, reason: message, candidates } })
 }
 
-interface County { fips: string, name: string | null }
+export interface County { fips: string, name: string | null }
 
 /** The county of the address: as given, or from the postal code (422 when it spans several). */
-async function countyOf(request: CheckRequest): Promise<County> {
+export async function countyOf(request: Pick<CheckRequest, 'address'>): Promise<County> {
   const { address } = request
   const place = await postalPlace(address.postalCode)
   if (address.countyFips) {
@@ -27,12 +28,17 @@ async function countyOf(request: CheckRequest): Promise<County> {
   return { fips: place.counties[0]!.fips, name: place.counties[0]!.name }
 }
 
+/** The rulebook generation requireUser read with the user row, when there is one. */
+export function knownRulebookGeneration(event: H3Event): number | undefined {
+  return typeof event.context.rulebookGeneration === 'number' ? event.context.rulebookGeneration : undefined
+}
+
 /**
- * The whole check: the county of the address, the rules in force (from the cached rulebook), the
- * result recomputed from the readings — never the client's arithmetic — and the verdict.
- * Stored with its inputs, outputs and rule version unless `dryRun`.
+ * The check without storing it: the county of the address, the rules in force (from the cached
+ * rulebook), the result recomputed from the readings — never the client's arithmetic — and the
+ * verdict. Used by POST /api/checks, by test records and by the filing recomputation.
  */
-export async function runCheck(event: H3Event, user: User, request: CheckRequest, dryRun: boolean): Promise<CheckResponse> {
+export async function checkFor(user: Pick<User, 'id' | 'name'> | null, request: CheckRequest, generation?: number): Promise<CheckResponse> {
   const county = await countyOf(request)
   const resolved = await resolveRules({
     jurisdictionId: request.jurisdictionId,
@@ -41,17 +47,23 @@ export async function runCheck(event: H3Event, user: User, request: CheckRequest
     postalCode: request.address.postalCode,
     permitDate: request.permitDate,
     buildingType: request.buildingType,
-  }, typeof event.context.rulebookGeneration === 'number' ? event.context.rulebookGeneration : undefined)
+  }, generation)
   if (!resolved.ok) {
     // A jurisdiction named by the user that does not exist or does not cover the address is bad input, not "no rule".
     if (request.jurisdictionId !== undefined && resolved.reason === 'no-jurisdiction') throw badRequest([{ field: 'jurisdictionId', reason: resolved.message }])
     if (request.jurisdictionId !== undefined && resolved.reason === 'county-not-covered') throw badRequest([{ field: 'address.countyFips', reason: resolved.message }])
     if (resolved.reason === 'ambiguous-jurisdiction') throw needsChoice('jurisdictionId', resolved.message, resolved.candidates ?? [])
   }
+  return buildCheckResponse(user, request, county, resolved)
+}
 
+/**
+ * The answer for rules already resolved (pure: no database). The demo seed calls it with rules it
+ * resolved itself, because the rulebook cannot be read while the database is still opening.
+ */
+export function buildCheckResponse(user: Pick<User, 'id' | 'name'> | null, request: CheckRequest, county: County, resolved: ResolveResult, checkedAt = new Date()): CheckResponse {
   const metrics = analyzeLeakage(request)
-  const checkedAt = new Date()
-  let response: CheckResponse
+  const checkedBy = user ? { id: user.id, name: user.name } : null
   if (resolved.ok) {
     const judgement = judge({
       result: metrics,
@@ -62,7 +74,7 @@ export async function runCheck(event: H3Event, user: User, request: CheckRequest
       rules: resolved.rules.map(r => ({ key: r.key, kind: r.kind, logic: r.logic, summary: r.summary || ruleInWords(r.logic), citation: citationOf(r) })),
     })
     const noRule = judgement.noRuleReason ? { reason: judgement.noRuleReason as CheckNoRuleReason, message: noRuleMessage(judgement.noRuleReason, judgement.rules) } : null
-    response = {
+    return {
       checkId: null,
       verdict: judgement.verdict,
       noRule,
@@ -78,41 +90,44 @@ export async function runCheck(event: H3Event, user: User, request: CheckRequest
       metrics,
       caution: CAUTION,
       checkedAt: checkedAt.toISOString(),
-      checkedBy: { id: user.id, name: user.name },
+      checkedBy,
       request,
     }
   }
-  else {
-    response = {
-      checkId: null,
-      verdict: 'no-rule',
-      noRule: { reason: resolved.reason, message: `${resolved.message} Tightwell cannot check this result; this is not a pass.` },
-      jurisdiction: null,
-      county,
-      zone: null,
-      zoneMap: null,
-      edition: null,
-      ruleSetVersion: null,
-      rules: [],
-      advisories: [],
-      maxCfm50: null,
-      metrics,
-      caution: CAUTION,
-      checkedAt: checkedAt.toISOString(),
-      checkedBy: { id: user.id, name: user.name },
-      request,
-    }
+  return {
+    checkId: null,
+    verdict: 'no-rule',
+    noRule: { reason: resolved.reason, message: `${resolved.message} Tightwell cannot check this result; this is not a pass.` },
+    jurisdiction: null,
+    county,
+    zone: null,
+    zoneMap: null,
+    edition: null,
+    ruleSetVersion: null,
+    rules: [],
+    advisories: [],
+    maxCfm50: null,
+    metrics,
+    caution: CAUTION,
+    checkedAt: checkedAt.toISOString(),
+    checkedBy,
+    request,
   }
-  if (dryRun) return response
+}
 
+/** POST /api/checks: the check, stored with its inputs, outputs and rule version unless `dryRun`. */
+export async function runCheck(event: H3Event, user: User, request: CheckRequest, dryRun: boolean): Promise<CheckResponse> {
+  const response = await checkFor(user, request, knownRulebookGeneration(event))
+  if (dryRun) return response
+  const { metrics } = response
   response.checkId = await recordCheck({
     userId: user.id,
-    createdAt: checkedAt,
+    createdAt: new Date(response.checkedAt),
     verdict: response.verdict,
     jurisdictionId: response.jurisdiction?.id ?? null,
     ruleSetVersionId: response.ruleSetVersion?.id ?? null,
     zone: response.zone,
-    countyFips: county.fips,
+    countyFips: response.county?.fips ?? null,
     addressLine: request.address.line1,
     city: request.address.city,
     stateCode: request.address.state,

@@ -22,7 +22,7 @@ describe('the app shell in a real browser', () => {
     await page.getByRole('button', { name: 'Sign in' }).click()
     await page.waitForURL(`${baseUrl}/`)
     await expect.poll(() => page.locator('[data-test=dashboard-title]').textContent()).toContain('Welcome, Tobias')
-    await expect.poll(() => page.getByRole('navigation', { name: 'Main' }).getByRole('link').allTextContents()).toEqual(['Dashboard', 'Self-check', 'My checks', 'Calculator', 'Rule tables', 'Account'])
+    await expect.poll(() => page.getByRole('navigation', { name: 'Main' }).getByRole('link').allTextContents()).toEqual(['Dashboard', 'Projects', 'Filings', 'Self-check', 'My checks', 'Calculator', 'Rule tables', 'Account'])
     await screenshot(page, 'rater-dashboard')
 
     await page.getByRole('button', { name: 'Sign out' }).click()
@@ -35,8 +35,8 @@ describe('the app shell in a real browser', () => {
 
   it('each role sees its own navigation; a rater sent to /admin/people lands on the dashboard', async () => {
     const expected: Record<string, string[]> = {
-      'admin@tightwell.test': ['Dashboard', 'Self-check', 'My checks', 'Calculator', 'Rule tables', 'People', 'Account'],
-      'reviewer@tightwell.test': ['Dashboard', 'Self-check', 'My checks', 'Calculator', 'Rule tables', 'Account'],
+      'admin@tightwell.test': ['Dashboard', 'Projects', 'Filings', 'Self-check', 'My checks', 'Calculator', 'Rule tables', 'People', 'Outbox', 'Account'],
+      'reviewer@tightwell.test': ['Dashboard', 'Review queue', 'Self-check', 'My checks', 'Calculator', 'Rule tables', 'Account'],
     }
     for (const [email, links] of Object.entries(expected)) {
       const page = await browser.newPage()

@@ -30,6 +30,34 @@ export class Client {
   }
 
   get(path: string) { return this.request('GET', path) }
+  patch(path: string, body?: unknown) { return this.request('PATCH', path, body) }
+  delete(path: string) { return this.request('DELETE', path) }
+
+  /** A multipart/form-data upload of one file in the field "file" (fetch sets the boundary). */
+  async upload(path: string, bytes: Uint8Array | string, filename: string, type = 'application/octet-stream', field = 'file') {
+    const form = new FormData()
+    form.append(field, new Blob([typeof bytes === 'string' ? new TextEncoder().encode(bytes) : bytes], { type }), filename)
+    const headers: Record<string, string> = { accept: 'application/json' }
+    if (this.cookie) headers.cookie = this.cookie
+    if (this.address) headers['x-forwarded-for'] = this.address
+    const res = await fetch(this.baseUrl + path, { method: 'POST', headers, body: form })
+    const text = await res.text()
+    let json: any = null
+    try {
+      json = text ? JSON.parse(text) : null
+    }
+    catch { json = text }
+    return { status: res.status, headers: res.headers, body: json, text }
+  }
+
+  /** The raw bytes of a GET (files, PDFs). */
+  async bytes(path: string) {
+    const headers: Record<string, string> = {}
+    if (this.cookie) headers.cookie = this.cookie
+    if (this.address) headers['x-forwarded-for'] = this.address
+    const res = await fetch(this.baseUrl + path, { headers })
+    return { status: res.status, headers: res.headers, bytes: new Uint8Array(await res.arrayBuffer()) }
+  }
   post(path: string, body?: unknown, headers?: Record<string, string>) { return this.request('POST', path, body, headers) }
 
   async signIn(email: string, password = 'tightwell-demo') {

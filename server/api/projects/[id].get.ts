@@ -1,0 +1,7 @@
+import { IdParams } from '#shared/schemas/people'
+
+export default defineEventHandler(async (event) => {
+  const user = await requireRole(event, 'rater', 'admin')
+  const { id } = paramsAs(event, IdParams)
+  return projectDetail(await findProjectFor(user, id))
+})

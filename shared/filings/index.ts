@@ -1,0 +1,7 @@
+export * from './constants'
+export * from './file-type'
+export * from './readings-csv'
+export * from './schemas'
+export * from './snapshot'
+export * from './states'
+export * from './types'
