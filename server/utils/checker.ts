@@ -1,7 +1,7 @@
 import type { H3Event } from 'h3'
 import type { User } from '#auth-utils'
 import { CAUTION, judge, type CheckNoRuleReason, type CheckRequest, type CheckResponse } from '../../shared/checks'
-import { analyzeLeakage } from '../../shared/leakage'
+import { analyzeLeakage, type LeakageResult } from '../../shared/leakage'
 import { ruleInWords } from '../../shared/rules/logic'
 import type { ResolveResult } from './rulebook'
 
@@ -62,7 +62,7 @@ export async function checkFor(user: Pick<User, 'id' | 'name'> | null, request: 
  * resolved itself, because the rulebook cannot be read while the database is still opening.
  */
 export function buildCheckResponse(user: Pick<User, 'id' | 'name'> | null, request: CheckRequest, county: County, resolved: ResolveResult, checkedAt = new Date()): CheckResponse {
-  const metrics = analyzeLeakage(request)
+  const metrics = compactMetrics(analyzeLeakage(request))
   const checkedBy = user ? { id: user.id, name: user.name } : null
   if (resolved.ok) {
     const judgement = judge({
@@ -137,9 +137,18 @@ export async function runCheck(event: H3Event, user: User, request: CheckRequest
     cfm50: metrics.cfm50,
     ach50: metrics.ach50,
     request: JSON.stringify(request),
-    response: JSON.stringify({ ...response, checkId: undefined }),
+    // The request has its own column; GET /api/checks/:id puts it back.
+    response: JSON.stringify({ ...response, checkId: undefined, request: undefined }),
   })
   return response
+}
+
+/**
+ * A one-direction test's `directions[0]` repeats the top-level figures: the check's answer leaves
+ * it out (a third of its size). A two-direction test keeps both directions.
+ */
+function compactMetrics(metrics: LeakageResult): LeakageResult {
+  return metrics.directions.length > 1 ? metrics : { ...metrics, directions: [] }
 }
 
 function citationOf(rule: { citationCode: string, citationEdition: string, citationSection: string }): string {

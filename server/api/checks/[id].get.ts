@@ -12,5 +12,5 @@ export default defineEventHandler(async (event): Promise<CheckResponse> => {
     where: user.role === 'admin' ? eq(checks.id, id) : and(eq(checks.id, id), eq(checks.userId, user.id)),
   })
   if (!row) throw createError({ statusCode: 404, statusMessage: 'Not Found', message: `No check ${id} of yours.` })
-  return { ...(JSON.parse(row.response) as Omit<CheckResponse, 'checkId'>), checkId: row.id }
+  return { ...(JSON.parse(row.response) as Omit<CheckResponse, 'checkId' | 'request'>), request: JSON.parse(row.request) as CheckResponse['request'], checkId: row.id }
 })
