@@ -47,11 +47,13 @@ export interface RunningServer {
  * Starts the built server on a free loopback port with its own data folder (database file and
  * session secret), demo data on, and X-Forwarded-For trusted so tests can play several clients.
  */
-export async function startBuiltServer(env: Record<string, string> = {}): Promise<RunningServer> {
+export async function startBuiltServer(env: Record<string, string> = {}, prefix: string[] = []): Promise<RunningServer> {
   const port = await freePort()
   const dataDir = mkdtempSync(join(tmpdir(), 'tightwell-test-'))
   let out = ''
-  const child = spawn(process.execPath, [SERVER_ENTRY], {
+  // `prefix` runs the server through another command, e.g. ['taskset', '-c', '0'] in a benchmark.
+  const [command, ...args] = [...prefix, process.execPath, SERVER_ENTRY]
+  const child = spawn(command!, args, {
     cwd: dataDir,
     env: {
       ...process.env,
