@@ -2,7 +2,7 @@
  * The verdict: a leakage result held against the rules in force for a zone and building type.
  * Pure TypeScript (runs on the server for the record and could run in the page for a preview).
  */
-import { TARGET_METRICS, areaToFt2, solveTarget, volumeToFt3, type BuildingInput, type LeakageResult, type TargetMetric, type UnitSystem } from '../leakage'
+import { FLOW_METRICS, TARGET_METRICS, areaToFt2, solveTarget, volumeToFt3, type BuildingInput, type LeakageResult, type TargetMetric, type UnitSystem } from '../leakage'
 import { evaluateRule, missingVariables, roundSignificant, ruleTerms, type RuleInputs, type RuleLogic, type RuleTerm, type RuleTerms } from '../rules/logic'
 import type { BuildingType, Comparison, RuleKind, RuleVariableName } from '../rules/variables'
 import { zoneNumber } from '../rules/zones'
@@ -56,7 +56,6 @@ export interface Judgement {
   noRuleReason: 'no-matching-rule' | 'missing-input' | null
 }
 
-const FLOW_METRICS: readonly RuleVariableName[] = ['ach50', 'n50', 'cfm50', 'q50', 'cfm50PerEnclosureArea', 'cfm50PerFloorArea', 'airPermeability50', 'w50']
 
 /** The values a rule may read, from a result and its building (areas in ft², volume in ft³). */
 export function ruleInputsOf(result: LeakageResult, building: BuildingInput, units: UnitSystem, buildingType: BuildingType, zone: string): RuleInputs {

@@ -4,8 +4,11 @@
  */
 import type { LeakageMetrics } from './types'
 
-/** Every metric a rule may test, in display order. */
-export const LEAKAGE_METRICS = [
+/**
+ * The metrics proportional to CFM50 (each is CFM50 times a constant of the building): the ones a
+ * limit is set on, the target solver inverts and the rule tables offer. The one list of them.
+ */
+export const FLOW_METRICS = [
   'ach50',
   'n50',
   'cfm50',
@@ -14,6 +17,11 @@ export const LEAKAGE_METRICS = [
   'cfm50PerFloorArea',
   'airPermeability50',
   'w50',
+] as const satisfies readonly (keyof LeakageMetrics)[]
+
+/** Every metric of a result, in display order: the flow metrics, then the leakage areas. */
+export const LEAKAGE_METRICS = [
+  ...FLOW_METRICS,
   'ela4SqIn',
   'ela4Cm2',
   'eqla10SqIn',

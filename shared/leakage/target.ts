@@ -2,20 +2,12 @@
  * Target solver: the largest CFM50 a building may leak to meet a limit on a metric, and the
  * reduction needed from the current result.
  */
+import { FLOW_METRICS } from './metrics'
 import type { BuildingInput } from './types'
 import { M3H_PER_CFM, M3HM2_PER_CFMFT2, areaToFt2, type UnitSystem, volumeToFt3 } from './units'
 
 /** Metrics a limit can be set on (each is CFM50 times a constant of the building). */
-export const TARGET_METRICS = [
-  'ach50',
-  'n50',
-  'cfm50',
-  'q50',
-  'cfm50PerEnclosureArea',
-  'cfm50PerFloorArea',
-  'airPermeability50',
-  'w50',
-] as const
+export const TARGET_METRICS = FLOW_METRICS
 
 export type TargetMetric = (typeof TARGET_METRICS)[number]
 

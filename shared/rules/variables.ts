@@ -4,15 +4,10 @@
  * values). Adding a metric: add it here, supply it in the checker, document it in DEVELOPERS.md.
  */
 
+import { FLOW_METRICS } from '../leakage/metrics'
+
 export const RULE_VARIABLE_NAMES = [
-  'ach50',
-  'n50',
-  'cfm50',
-  'q50',
-  'cfm50PerEnclosureArea',
-  'cfm50PerFloorArea',
-  'airPermeability50',
-  'w50',
+  ...FLOW_METRICS,
   'floorArea',
   'volume',
   'enclosureArea',
