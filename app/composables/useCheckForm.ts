@@ -16,6 +16,9 @@ export function useCheckForm() {
   })
   const safety = ref<string[]>([])
   const countyChoices = ref<CountyChoice[]>([])
+  /** When two jurisdictions cover the county (a city inside a county), the user names one. */
+  const jurisdictionChoices = ref<{ id: number, name: string }[]>([])
+  const jurisdictionId = ref<number | null>(null)
   const countyNote = ref('')
   const response = ref<CheckResponse | null>(null)
   const problem = ref('')
@@ -33,6 +36,7 @@ export function useCheckForm() {
     },
     permitDate: where.permitDate,
     buildingType: where.buildingType,
+    ...(jurisdictionId.value !== null ? { jurisdictionId: jurisdictionId.value } : {}),
   }))
 
   /** Suggests the county for a postal code; several counties → the user chooses. */
@@ -68,9 +72,12 @@ export function useCheckForm() {
     }
     catch (e) {
       response.value = null
-      const data = (e as { data?: { data?: { candidates?: CountyChoice[] } } }).data?.data
-      if (data?.candidates?.length) {
-        countyChoices.value = data.candidates
+      const data = (e as { data?: { data?: { field?: string, candidates?: unknown[] } } }).data?.data
+      if (data?.field === 'jurisdictionId' && data.candidates?.length) {
+        jurisdictionChoices.value = data.candidates as { id: number, name: string }[]
+      }
+      else if (data?.candidates?.length) {
+        countyChoices.value = data.candidates as CountyChoice[]
         countyNote.value = `Postal code ${where.postalCode} spans ${data.candidates.length} counties: choose the one the house is in, then check again.`
       }
       problem.value = errorMessage(e)
@@ -81,5 +88,5 @@ export function useCheckForm() {
     }
   }
 
-  return { ...leakage, where, safety, countyChoices, countyNote, response, problem, problemField, busy, body, suggestCounty, submit }
+  return { ...leakage, where, safety, countyChoices, jurisdictionChoices, jurisdictionId, countyNote, response, problem, problemField, busy, body, suggestCounty, submit }
 }
