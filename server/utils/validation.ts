@@ -31,16 +31,28 @@ function check<S extends z.ZodType>(schema: S, input: unknown): z.output<S> {
   return result.data
 }
 
-/** Reads and validates a JSON body; malformed JSON and schema failures are 400s naming the field. */
-export async function readBodyAs<S extends z.ZodType>(event: H3Event, schema: S): Promise<z.output<S>> {
+/**
+ * Reads and validates a JSON body; malformed JSON and schema failures are 400s naming the field.
+ * `accept` is an optional fast path for a hot route: it returns the parsed body when it is plainly
+ * valid (exactly what the schema would return) or undefined, and then the schema decides and words
+ * the problems. With it the body is read raw and parsed with JSON.parse, skipping h3's safe-parse.
+ */
+export async function readBodyAs<S extends z.ZodType>(event: H3Event, schema: S, accept?: (body: unknown) => z.output<S> | undefined): Promise<z.output<S>> {
   let body: unknown
   try {
-    body = await readBody(event)
+    if (accept) {
+      const raw = await readRawBody(event, 'utf8')
+      body = raw ? JSON.parse(raw) : undefined
+    }
+    else {
+      body = await readBody(event)
+    }
   }
   catch {
     throw badRequest([{ field: '(body)', reason: 'is not valid JSON' }])
   }
-  return check(schema, body ?? {})
+  body ??= {}
+  return accept?.(body) ?? check(schema, body)
 }
 
 export function paramsAs<S extends z.ZodType>(event: H3Event, schema: S): z.output<S> {
