@@ -90,12 +90,15 @@ function scaledInputs(inputs: RuleInputs, cfm50: number): RuleInputs {
   return out
 }
 
-const termsCache = new WeakMap<object, RuleTerms>()
+/** A rule's terms with each limit already rounded for comparison (limits do not change). */
+interface ReadTerms extends RuleTerms { roundedLimits: number[] }
+const termsCache = new WeakMap<object, ReadTerms>()
 /** ruleTerms, read once per (frozen, reused) rule object. */
-function termsOf(logic: RuleLogic): RuleTerms {
+function termsOf(logic: RuleLogic): ReadTerms {
   let terms = termsCache.get(logic)
   if (!terms) {
-    terms = ruleTerms(logic)
+    const read = ruleTerms(logic)
+    terms = { ...read, roundedLimits: read.terms.map(t => roundSignificant(t.limit)) }
     termsCache.set(logic, terms)
   }
   return terms
@@ -119,14 +122,15 @@ function compare(a: number, op: Comparison, b: number): boolean {
  * a property test checks; other shapes go to evaluateRule.
  */
 export function evaluate(logic: RuleLogic, inputs: RuleInputs): boolean {
-  const { combinator, terms } = termsOf(logic)
+  const { combinator, terms, roundedLimits } = termsOf(logic)
   if (combinator === 'complex' || terms.length === 0) return evaluateRule(logic, inputs)
   let any = false
   let all = true
-  for (const t of terms) {
+  for (let i = 0; i < terms.length; i++) {
+    const t = terms[i]!
     const v = inputs[t.metric]
     // A missing value is NaN, as in evaluateRule: it fails every comparison but "≠".
-    const ok = compare(typeof v === 'number' ? roundSignificant(v) : Number.NaN, t.comparison, roundSignificant(t.limit))
+    const ok = compare(typeof v === 'number' ? roundSignificant(v) : Number.NaN, t.comparison, roundedLimits[i]!)
     any ||= ok
     all &&= ok
   }

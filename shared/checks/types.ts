@@ -1,10 +1,20 @@
-import type { LeakageResult } from '../leakage'
+import type { DirectionResult, LeakageResult } from '../leakage'
 import type { NoRuleReason } from '../rules/resolve'
 import type { CheckRequest } from './schema'
 import type { RuleOutcome, Verdict } from './judge'
 
 /** Why a check found no rule: the rule-table reasons plus the checker's own. */
 export type CheckNoRuleReason = NoRuleReason | 'missing-input'
+
+/**
+ * The calculation as a check reports it: every figure of POST /api/calculations, without the plot
+ * data (`points`, `fitLine`) — a pure function of the request, which the calculation route gives
+ * for the same readings. A one-direction test's `directions` is empty (it would repeat the
+ * top-level figures); a two-direction test lists both, also without plot data.
+ */
+export type CheckMetrics = Omit<LeakageResult, 'points' | 'fitLine' | 'directions'> & {
+  directions: Omit<DirectionResult, 'points' | 'fitLine'>[]
+}
 
 /** The answer of POST /api/checks and GET /api/checks/:id. */
 export interface CheckResponse {
@@ -23,7 +33,7 @@ export interface CheckResponse {
   rules: RuleOutcome[]
   advisories: RuleOutcome[]
   maxCfm50: number | null
-  metrics: LeakageResult
+  metrics: CheckMetrics
   caution: string
   checkedAt: string
   checkedBy: { id: number, name: string } | null

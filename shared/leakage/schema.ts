@@ -106,12 +106,11 @@ export function checkTestReadings(test: TestFields, ctx: IssueSink): void {
   const base = baselineAverage(test) ?? 0
   const seen = new Map<number, number>()
   test.readings.forEach((reading, i) => {
-    const path = ['readings', i, 'pressure']
     const p = reading.pressure
     if (p * sign <= 0) {
       ctx.addIssue({
         code: 'custom',
-        path,
+        path: ['readings', i, 'pressure'],
         message: depress
           ? `In a depressurization test the house is below outdoor pressure, so readings must be negative (got ${pa(p)}).`
           : `In a pressurization test the house is above outdoor pressure, so readings must be positive (got ${pa(p)}).`,
@@ -119,17 +118,17 @@ export function checkTestReadings(test: TestFields, ctx: IssueSink): void {
       return
     }
     const adjusted = (p - base) * sign
-    const after = base === 0 ? 'This reading induces' : `After subtracting the baseline of ${pa(base)}, this reading induces`
+    const after = () => (base === 0 ? 'This reading induces' : `After subtracting the baseline of ${pa(base)}, this reading induces`)
     if (adjusted < PRESSURE_RANGE_PA.min) {
-      ctx.addIssue({ code: 'custom', path, message: `${after} ${pa(adjusted)}; at least ${PRESSURE_RANGE_PA.min} Pa is needed.` })
+      ctx.addIssue({ code: 'custom', path: ['readings', i, 'pressure'], message: `${after()} ${pa(adjusted)}; at least ${PRESSURE_RANGE_PA.min} Pa is needed.` })
     } else if (adjusted > PRESSURE_RANGE_PA.max) {
-      ctx.addIssue({ code: 'custom', path, message: `${after} ${pa(adjusted)}; at most ${PRESSURE_RANGE_PA.max} Pa is accepted.` })
+      ctx.addIssue({ code: 'custom', path: ['readings', i, 'pressure'], message: `${after()} ${pa(adjusted)}; at most ${PRESSURE_RANGE_PA.max} Pa is accepted.` })
     }
     const earlier = seen.get(p)
     if (earlier !== undefined) {
       ctx.addIssue({
         code: 'custom',
-        path,
+        path: ['readings', i, 'pressure'],
         message: `Pressure ${pa(p)} is already used by reading ${earlier + 1}; each reading needs a different pressure.`,
       })
     } else {

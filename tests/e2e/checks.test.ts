@@ -152,6 +152,35 @@ describe('stored checks and ownership', () => {
     expect((await admin.get(`/api/checks/${mine.checkId}`)).status).toBe(200)
   })
 
+  it('the answer, the dry run and the re-opened check agree; metrics are the calculation\'s figures without the plot data', async () => {
+    // A two-direction multi-point test (SYNTHETIC readings), so both directions are reported.
+    const readings = (sign: number) => [[15, 392], [25, 540], [35, 660], [50, 840]].map(([p, q]) => ({ pressure: sign * p!, flow: q! }))
+    const multi = body(0, {
+      test: { direction: 'depressurization', baseline: { before: -0.8 }, readings: readings(-1), insideTemperature: 68, outsideTemperature: 45 },
+      reverse: { direction: 'pressurization', readings: readings(1) },
+      address: { ...DENVER, line1: '  410 Larkspur Court ', postalCode: '80202-1234' },
+    })
+    const stored = await rater.post('/api/checks', multi)
+    expect(stored.status).toBe(201)
+    expect(stored.headers.get('content-type')).toMatch(/^application\/json/)
+    const dry = await rater.post('/api/checks?dryRun=1', multi)
+    expect(dry.status).toBe(200)
+    expect(dry.body.checkId).toBeNull()
+    const reopened = (await rater.get(`/api/checks/${stored.body.checkId}`)).body
+    expect(reopened).toEqual(stored.body)
+    const { checkedAt: _a, checkId: _b, ...same } = stored.body
+    expect(dry.body).toMatchObject(same)
+    // The request as validated: trimmed street, five-digit postal code.
+    expect(stored.body.request.address).toMatchObject({ line1: '410 Larkspur Court', postalCode: '80202' })
+
+    const { address: _c, permitDate: _d, buildingType: _e, ...calculation } = multi
+    const calc = (await rater.post('/api/calculations', calculation)).body
+    const { points: _p, fitLine: _f, directions, ...figures } = calc
+    expect(stored.body.metrics).toEqual({ ...figures, directions: directions.map(({ points: _q, fitLine: _g, ...d }: Record<string, unknown>) => d) })
+    expect(stored.body.metrics.directions).toHaveLength(2)
+    expect(stored.body.metrics).not.toHaveProperty('points')
+  })
+
   it('reviewers may self-check too', async () => {
     const reviewer = new Client(undefined, freshAddress())
     await reviewer.signIn('reviewer@tightwell.test')

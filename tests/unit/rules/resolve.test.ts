@@ -1,3 +1,4 @@
+import fc from 'fast-check'
 import { describe, expect, it } from 'vitest'
 import { applicableRules, editionInForce, inForce, isIsoDate, spansOverlap } from '#shared/rules'
 
@@ -22,6 +23,19 @@ describe('the edition in force on a permit date', () => {
 
   it.each([['2024-02-29', true], ['2023-02-29', false], ['2023-13-01', false], ['2023-1-01', false], ['20230101', false]])('isIsoDate(%j) = %s', (date, ok) => {
     expect(isIsoDate(date)).toBe(ok)
+  })
+
+  it('isIsoDate agrees with the calendar of JavaScript\'s Date (proleptic Gregorian, ECMA-262 §21.4.1) on every day shape', () => {
+    const viaDate = (v: string) => {
+      const d = new Date(`${v}T00:00:00Z`)
+      return !Number.isNaN(d.getTime()) && d.toISOString().slice(0, 10) === v
+    }
+    const pad = (n: number, w: number) => String(n).padStart(w, '0')
+    fc.assert(fc.property(fc.integer({ min: 0, max: 9999 }), fc.integer({ min: 0, max: 13 }), fc.integer({ min: 0, max: 32 }), (y, m, d) => {
+      const v = `${pad(y, 4)}-${pad(m, 2)}-${pad(d, 2)}`
+      expect(isIsoDate(v)).toBe(viaDate(v))
+    }), { numRuns: 20000, seed: 20261202 })
+    for (const y of [1900, 2000, 2023, 2024, 2100, 2400]) expect(isIsoDate(`${y}-02-29`)).toBe(viaDate(`${y}-02-29`))
   })
 })
 
