@@ -1,4 +1,5 @@
 import type { checks } from '../database/schema'
+import type { NativeDb } from './db'
 
 /** A check as stored: the `checks` row without its id, the time as epoch milliseconds. */
 export type CheckRecord = Omit<typeof checks.$inferInsert, 'id' | 'createdAt'> & { createdAt: number }
@@ -32,8 +33,9 @@ function insertStatement(rows: number): string {
 /**
  * Stores a check and resolves with its id once it is committed. Checks arriving together are
  * written in one multi-row INSERT (group commit): each still waits for its own commit, but a
- * burst costs one statement and one transaction instead of one each. The statement is plain SQL
- * on the libSQL client (cached per group size) — the query builder costs more than the insert.
+ * burst costs one statement and one transaction instead of one each. The statement is plain SQL,
+ * prepared once per group size on the native connection (useNativeWriter) — the query builder,
+ * and even the client's per-call preparation, cost more than the insert itself.
  */
 export function recordCheck(row: CheckRecord): Promise<number> {
   return new Promise((resolve, reject) => {
@@ -51,21 +53,38 @@ async function flush() {
   scheduled = queue.length > 0
   if (scheduled) setImmediate(flush)
   try {
-    const client = await useClient()
     const args: (string | number | null)[] = []
     for (const { row } of group) {
       for (const column of COLUMNS) args.push(row[column] ?? null)
     }
-    const result = await client.execute({ sql: insertStatement(group.length), args })
-    if (result.rowsAffected !== group.length || result.lastInsertRowid === undefined) {
-      throw new Error(`stored ${result.rowsAffected} of ${group.length} checks`)
-    }
+    const { changes, lastId } = await insert(group.length, args)
+    if (changes !== group.length) throw new Error(`stored ${changes} of ${group.length} checks`)
     // One INSERT of n rows into an AUTOINCREMENT table takes n consecutive ids in VALUES order,
-    // the last of which is lastInsertRowid.
-    const first = Number(result.lastInsertRowid) - group.length + 1
+    // the last of which is the last insert rowid.
+    const first = lastId - group.length + 1
     group.forEach((p, i) => p.resolve(first + i))
   }
   catch (error) {
     group.forEach(p => p.reject(error))
   }
+}
+
+/** Prepared group inserts on the native connection, one per group size, kept while it is open. */
+const prepared = new WeakMap<NativeDb, Map<number, ReturnType<NativeDb['prepare']>>>()
+
+/** The group insert: prepared once on the native connection (file databases), else through the client (sqld). */
+async function insert(rows: number, args: (string | number | null)[]): Promise<{ changes: number, lastId: number }> {
+  const native = await useNativeWriter()
+  if (native) {
+    let statements = prepared.get(native)
+    if (!statements) prepared.set(native, statements = new Map())
+    const statement = statements.get(rows) ?? native.prepare(insertStatement(rows))
+    statements.set(rows, statement)
+    const info = statement.run(args)
+    return { changes: info.changes, lastId: Number(info.lastInsertRowid) }
+  }
+  const client = await useClient()
+  const result = await client.execute({ sql: insertStatement(rows), args })
+  if (result.lastInsertRowid === undefined) throw new Error('the database gave no id for the stored checks')
+  return { changes: result.rowsAffected, lastId: Number(result.lastInsertRowid) }
 }

@@ -181,6 +181,20 @@ describe('stored checks and ownership', () => {
     expect(stored.body.metrics).not.toHaveProperty('points')
   })
 
+  it('a burst of checks from two raters: each answer gets its own id and re-opens as itself (group insert)', async () => {
+    const flows = Array.from({ length: 40 }, (_, i) => 600 + i)
+    const answers = await Promise.all(flows.map((flow, i) => (i % 2 ? rater2 : rater).post('/api/checks', body(flow))))
+    expect(answers.every(a => a.status === 201)).toBe(true)
+    const ids = answers.map(a => a.body.checkId as number)
+    expect(new Set(ids).size).toBe(flows.length)
+    for (const [i, answer] of answers.entries()) {
+      const owner = i % 2 ? rater2 : rater
+      const reopened = (await owner.get(`/api/checks/${answer.body.checkId}`)).body
+      expect(reopened.metrics.cfm50).toBe(flows[i])
+      expect(reopened).toEqual(answer.body)
+    }
+  })
+
   it('reviewers may self-check too', async () => {
     const reviewer = new Client(undefined, freshAddress())
     await reviewer.signIn('reviewer@tightwell.test')

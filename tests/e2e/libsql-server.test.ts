@@ -57,6 +57,22 @@ describe.skipIf(why !== null)('the same app against a libSQL server over HTTP', 
     const made = await admin.post('/api/users', { email: 'remote@tightwell.test', name: 'Ferris Ombudo', role: 'rater', password: 'a-long-first-password' })
     expect(made.status).toBe(201)
     await new Client(app.url, '192.0.2.11').signIn('remote@tightwell.test', 'a-long-first-password')
+    // A stored check goes through the client's path of the group insert (no native connection to a server).
+    const rater = new Client(app.url, '192.0.2.12')
+    await rater.signIn('rater@tightwell.test')
+    const check = {
+      units: 'ip',
+      building: { volume: 18000, floorArea: 2000, enclosureArea: 4340 },
+      test: { direction: 'depressurization', readings: [{ pressure: -50, flow: 900 }] },
+      address: { line1: '410 Larkspur Court', city: 'Juniper Flats', state: 'CO', postalCode: '80202', countyFips: '08031' },
+      permitDate: '2020-03-02',
+      buildingType: 'detached',
+    }
+    const stored = await Promise.all([1, 2, 3].map(() => rater.post('/api/checks', check)))
+    expect(stored.map(r => r.status)).toEqual([201, 201, 201])
+    const ids = stored.map(r => r.body.checkId as number)
+    expect(new Set(ids).size).toBe(3)
+    for (const id of ids) expect((await rater.get(`/api/checks/${id}`)).body.checkId).toBe(id)
     // No database file was written by the app: everything went to sqld.
     expect(existsSync(join(app.dataDir, 'tightwell.db'))).toBe(false)
   })
