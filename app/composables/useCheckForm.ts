@@ -39,6 +39,29 @@ export function useCheckForm() {
     ...(jurisdictionId.value !== null ? { jurisdictionId: jurisdictionId.value } : {}),
   }))
 
+  // A choice of jurisdiction belongs to one county: another county (or state) asks again.
+  // Synchronous, so a form that fills in a saved address and then its jurisdiction keeps both.
+  watch(() => [where.state, where.countyFips], () => {
+    jurisdictionChoices.value = []
+    jurisdictionId.value = null
+  }, { flush: 'sync' })
+
+  /**
+   * A 422 asks the user to choose: the jurisdiction (two cover the county) or the county (the
+   * postal code spans several). Offers the candidates it names; other errors are left alone.
+   * `again` ends the county note ("then check again", "then save again").
+   */
+  function offerChoices(e: unknown, again: string) {
+    const data = (e as { data?: { data?: { field?: string, candidates?: unknown[] } } }).data?.data
+    if (data?.field === 'jurisdictionId' && data.candidates?.length) {
+      jurisdictionChoices.value = data.candidates as { id: number, name: string }[]
+    }
+    else if (data?.candidates?.length) {
+      countyChoices.value = data.candidates as CountyChoice[]
+      countyNote.value = `Postal code ${where.postalCode} spans ${data.candidates.length} counties: choose the one the house is in, then ${again}.`
+    }
+  }
+
   /** Suggests the county for a postal code; several counties → the user chooses. */
   async function suggestCounty() {
     countyChoices.value = []
@@ -72,14 +95,7 @@ export function useCheckForm() {
     }
     catch (e) {
       response.value = null
-      const data = (e as { data?: { data?: { field?: string, candidates?: unknown[] } } }).data?.data
-      if (data?.field === 'jurisdictionId' && data.candidates?.length) {
-        jurisdictionChoices.value = data.candidates as { id: number, name: string }[]
-      }
-      else if (data?.candidates?.length) {
-        countyChoices.value = data.candidates as CountyChoice[]
-        countyNote.value = `Postal code ${where.postalCode} spans ${data.candidates.length} counties: choose the one the house is in, then check again.`
-      }
+      offerChoices(e, 'check again')
       problem.value = errorMessage(e)
       problemField.value = errorField(e)
     }
@@ -88,5 +104,5 @@ export function useCheckForm() {
     }
   }
 
-  return { ...leakage, where, safety, countyChoices, jurisdictionChoices, jurisdictionId, countyNote, response, problem, problemField, busy, body, suggestCounty, submit }
+  return { ...leakage, where, safety, countyChoices, jurisdictionChoices, jurisdictionId, countyNote, response, problem, problemField, busy, body, suggestCounty, offerChoices, submit }
 }

@@ -283,9 +283,10 @@ export async function projectFreezingFiling(projectId: number): Promise<{ id: nu
 
 export async function projectInfo(row: ProjectRow): Promise<ProjectInfo> {
   const db = await useDb()
-  const [owner, jurisdiction] = await Promise.all([
+  const [owner, jurisdiction, covering] = await Promise.all([
     db.query.users.findFirst({ columns: { name: true }, where: eq(users.id, row.ownerId) }),
     row.jurisdictionId === null ? undefined : db.query.jurisdictions.findFirst({ columns: { name: true }, where: eq(jurisdictions.id, row.jurisdictionId) }),
+    jurisdictionsCovering(row.countyFips),
   ])
   return {
     ...projectSnapshotOf(row),
@@ -293,6 +294,7 @@ export async function projectInfo(row: ProjectRow): Promise<ProjectInfo> {
     ownerId: row.ownerId,
     ownerName: owner?.name ?? '',
     jurisdictionName: jurisdiction?.name ?? null,
+    jurisdictionChoices: covering.length > 1 ? covering : [],
     createdAt: row.createdAt.toISOString(),
     updatedAt: row.updatedAt.toISOString(),
   }

@@ -179,6 +179,15 @@ export async function rulebook(known?: number): Promise<Rulebook> {
   return book.generation >= generation ? book : rulebook()
 }
 
+/** The jurisdictions that cover a county (by FIPS), by name: more than one means the user must choose. */
+export async function jurisdictionsCovering(countyFips: string): Promise<{ id: number, name: string }[]> {
+  const book = await rulebook()
+  return (book.byCounty.get(countyFips) ?? [])
+    .map(id => book.jurisdictions.get(id)!)
+    .map(j => ({ id: j.id, name: j.name }))
+    .sort((a, b) => a.name.localeCompare(b.name))
+}
+
 /** Drops the cache (tests; the generation check makes this unnecessary in normal operation). */
 export function forgetRulebook(): void {
   cached = undefined

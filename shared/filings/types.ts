@@ -57,6 +57,8 @@ export interface ProjectInfo extends ProjectSnapshot {
   ownerId: number
   ownerName: string
   jurisdictionName: string | null
+  /** The jurisdictions that cover the project's county when there are several (else empty). */
+  jurisdictionChoices: { id: number, name: string }[]
   createdAt: string
   updatedAt: string
 }
