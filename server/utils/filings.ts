@@ -409,7 +409,14 @@ export async function queuePage(user: User, query: QueueQuery, withFacets: boole
   if (query.raterId !== undefined) conditions.push(eq(filings.raterId, query.raterId))
   if (query.from) conditions.push(gte(filings.submittedAt, dayStart(query.from)))
   if (query.to) conditions.push(lte(filings.submittedAt, new Date(dayStart(query.to).getTime() + 86_400_000 - 1)))
-  if (query.q) {
+  if (query.q && [...query.q].length >= 3) {
+    // Any part of the text, through the trigram index (drizzle/0004_filing-search.sql): the same
+    // matches as LIKE '%q%' (case-insensitive), without reading every filing.
+    const phrase = `"${query.q.replace(/"/g, '""')}"`
+    conditions.push(sql`${filings.id} in (select rowid from filings_search where filings_search match ${phrase})`)
+  }
+  else if (query.q) {
+    // One or two characters are shorter than a trigram: a scan.
     const pattern = `%${query.q.replace(/[\\%_]/g, c => `\\${c}`)}%`
     conditions.push(or(
       sql`${filings.addressLine} like ${pattern} escape '\\'`,

@@ -297,6 +297,18 @@ describe('the queue: server-side sort, filters, search, pages', () => {
     expect(searched.total).toBe(1)
     expect(searched.rows[0].id).toBe(filing.id)
     expect((await reviewer.get('/api/filings?q=100%25_')).body.total).toBe(0)
+    // Any part of the text, in any case, as LIKE '%…%' finds it (through the trigram index).
+    const ids = async (q: string) => ((await reviewer.get(`/api/filings?q=${encodeURIComponent(q)}&pageSize=100`)).body.rows as { id: number }[]).map(r => r.id)
+    expect(await ids('ueue-lo')).toEqual([filing.id])
+    expect(await ids('jf-queue-loud')).toEqual([filing.id])
+    // The index's own syntax is just text here: quotes, operators, stars, columns → no error, no match.
+    for (const q of ['"', 'QUEUE" OR "x', 'LOUD*', 'NEAR(a b)', 'permit_number:JF', '+QUEUE', 'AND']) {
+      const res = await reviewer.get(`/api/filings?q=${encodeURIComponent(q)}`)
+      expect(res.status, q).toBe(200)
+      expect(res.body.rows.map((r: { id: number }) => r.id), q).not.toContain(filing.id)
+    }
+    // Shorter than a trigram: still found (by a scan).
+    expect((await ids('JF')).length).toBeGreaterThan(0)
 
     const bad = await reviewer.get('/api/filings?status=lost')
     expect(bad.status).toBe(400)

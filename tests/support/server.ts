@@ -71,6 +71,7 @@ export async function startBuiltServer(env: Record<string, string> = {}, prefix:
   })
   child.stdout!.on('data', (d) => { out += d })
   child.stderr!.on('data', (d) => { out += d })
+  child.on('exit', (code, signal) => { out += `\n[server exited: code ${code}, signal ${signal}]\n` })
   const url = `http://127.0.0.1:${port}`
   await waitForHttp(`${url}/api/health`, 30_000, child, () => out)
   return {
