@@ -1,4 +1,4 @@
-import type { DirectionResult, LeakageResult } from '../leakage'
+import type { DirectionResult, LeakageFigures } from '../leakage'
 import type { NoRuleReason } from '../rules/resolve'
 import type { CheckRequest } from './schema'
 import type { RuleOutcome, Verdict } from './judge'
@@ -12,7 +12,7 @@ export type CheckNoRuleReason = NoRuleReason | 'missing-input'
  * for the same readings. A one-direction test's `directions` is empty (it would repeat the
  * top-level figures); a two-direction test lists both, also without plot data.
  */
-export type CheckMetrics = Omit<LeakageResult, 'points' | 'fitLine' | 'directions'> & {
+export type CheckMetrics = LeakageFigures & {
   directions: Omit<DirectionResult, 'points' | 'fitLine'>[]
 }
 

@@ -208,3 +208,6 @@ export interface LeakageResult extends LeakageMetrics {
   /** Site elevation echoed from the request (ft or m), or null. */
   elevation: number | null
 }
+
+/** A result's figures without its plot data and per-direction detail (what a check reports at its top level). */
+export type LeakageFigures = Omit<LeakageResult, 'points' | 'fitLine' | 'directions'>
