@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
 import type { Browser, Page } from 'playwright-core'
-import { launchBrowser, screenshot, signInThroughPage } from '../support/browser'
+import { gotoReady, launchBrowser, screenshot, signInThroughPage } from '../support/browser'
 
 // The whole filing flow in Chromium, as the demo rater and the demo reviewer of the City of Juniper
 // Flats (Denver County CO, zone 5B, IECC 2015: ≤ 3 ACH50 — server/utils/seed.ts). SYNTHETIC readings.
@@ -95,7 +95,7 @@ describe('filing and review in a real browser', () => {
     await screenshot(reviewer, 'filing-returned')
 
     // The rater sees the reason, retests, files again.
-    await rater.goto(filingUrl)
+    await gotoReady(rater, filingUrl)
     await expect.poll(() => rater.locator('[data-test=return-reason]').textContent()).toContain('seal and retest')
     await rater.getByRole('link', { name: 'Revise the test and file it again' }).click()
     await rater.waitForURL(/\/tests\/\d+$/)
@@ -109,7 +109,7 @@ describe('filing and review in a real browser', () => {
     await expect.poll(() => rater.locator('[data-test=filing-page] [data-status]').first().getAttribute('data-status')).toBe('refiled')
 
     // The reviewer sees what changed and accepts.
-    await reviewer.goto(filingUrl)
+    await gotoReady(reviewer, filingUrl)
     await expect.poll(() => reviewer.locator('[data-test=revisions]').textContent()).toContain('Readings')
     expect(await reviewer.locator('[data-test=revisions] [data-field="test.statedCfm50"]').textContent()).toContain('880')
     await reviewer.locator('[data-test=take-up]').click()
@@ -122,7 +122,7 @@ describe('filing and review in a real browser', () => {
     await screenshot(reviewer, 'filing-accepted')
 
     // The printable certificate.
-    await rater.goto(`${filingUrl}/certificate`)
+    await gotoReady(rater, `${filingUrl}/certificate`)
     await expect.poll(() => rater.locator('[data-test=certificate]').count()).toBe(1)
     expect(await rater.locator('[data-test=cert-citation]').first().textContent()).toContain('IECC 2015 R402.4.1.2')
     expect(await rater.locator('[data-test=cert-verify-url]').textContent()).toBe(`${baseUrl}/verify/${code}`)
@@ -133,12 +133,12 @@ describe('filing and review in a real browser', () => {
 
     // Anyone verifies it without signing in.
     const anonymous = await (await browser.newContext()).newPage()
-    await anonymous.goto(`${baseUrl}/verify/${code}`)
+    await gotoReady(anonymous, `${baseUrl}/verify/${code}`)
     await expect.poll(() => anonymous.locator('[data-test=verify-status]').textContent()).toContain('Accepted')
     expect(await anonymous.locator('[data-test=verify-address]').textContent()).toBe('733 Pinyon Bluff Road, Juniper Flats CO 80202')
     expect(anonymous.url()).toBe(`${baseUrl}/verify/${code}`)
     await screenshot(anonymous, 'filing-verify')
-    await anonymous.goto(`${baseUrl}/verify/AAAABBBBCCCCDDDD`)
+    await gotoReady(anonymous, `${baseUrl}/verify/AAAABBBBCCCCDDDD`)
     await expect.poll(() => anonymous.locator('[data-test=verify-unknown]').count()).toBe(1)
 
     // The admin reads the captured mail on the Outbox page.
@@ -152,7 +152,7 @@ describe('filing and review in a real browser', () => {
     await screenshot(adminPage, 'filing-outbox')
 
     // The project shows its tests over time against the limit.
-    await rater.goto(`${baseUrl}/projects`)
+    await gotoReady(rater, `${baseUrl}/projects`)
     await rater.getByRole('link', { name: /1187 Quillback Lane/ }).click()
     await expect.poll(() => rater.locator('[data-test=tests-table] tbody tr').count()).toBe(2)
     expect(await rater.locator('[data-test=tests-plot] figcaption').textContent()).toContain('limit 3')

@@ -3,7 +3,7 @@ import { tmpdir } from 'node:os'
 import { join, resolve } from 'node:path'
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
 import type { Browser } from 'playwright-core'
-import { launchBrowser, screenshot, signInThroughPage } from '../support/browser'
+import { gotoReady, launchBrowser, screenshot, signInThroughPage } from '../support/browser'
 import { ROOT } from '../support/server'
 
 const baseUrl = inject('baseUrl')
@@ -118,7 +118,7 @@ describe('rule tables in a real browser', () => {
     // A rater reads the same table, without editing controls.
     const rater = await browser.newPage()
     await signInThroughPage(rater, baseUrl, 'rater@tightwell.test')
-    await rater.goto(url)
+    await gotoReady(rater, url)
     await expect.poll(() => rater.locator('[data-test=limits-table]').textContent()).toContain('ACH50 ≤ 2.5')
     expect(await rater.locator('[data-test=save-draft]').count()).toBe(0)
     expect(await rater.locator('[data-test=csv-import]').count()).toBe(0)
@@ -128,7 +128,7 @@ describe('rule tables in a real browser', () => {
   it('the advanced editor validates JSON live and previews the verdict in words', async () => {
     const page = await browser.newPage({ viewport: { width: 1280, height: 900 } })
     await signInThroughPage(page, baseUrl, 'admin@tightwell.test')
-    await page.goto(`${baseUrl}/rule-sets`)
+    await gotoReady(page, `${baseUrl}/rule-sets`)
     await page.getByRole('link', { name: 'Browser limits' }).click()
     await page.waitForURL(/\/rule-sets\/\d+$/)
     await page.locator('tr[data-key="r1"]').getByRole('button', { name: 'More' }).click()

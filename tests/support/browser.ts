@@ -22,8 +22,17 @@ export async function screenshot(page: Page, name: string): Promise<string> {
   return path
 }
 
+/**
+ * Opens a page and waits until Vue has hydrated it (the app is mounted on #__nuxt): a field filled
+ * before that has no listener yet, and its change is lost on a slow machine.
+ */
+export async function gotoReady(page: Page, url: string) {
+  await page.goto(url)
+  await page.waitForFunction(() => Boolean((document.querySelector('#__nuxt') as { __vue_app__?: unknown } | null)?.__vue_app__))
+}
+
 export async function signInThroughPage(page: Page, baseUrl: string, email: string, password = 'tightwell-demo') {
-  await page.goto(`${baseUrl}/sign-in`)
+  await gotoReady(page, `${baseUrl}/sign-in`)
   await page.getByLabel('E-mail').fill(email)
   await page.getByLabel('Password').fill(password)
   await page.getByRole('button', { name: 'Sign in' }).click()
