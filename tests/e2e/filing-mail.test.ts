@@ -46,3 +46,47 @@ describe('mail queue with retry', () => {
     expect((await rater.get(`/api/filings/${filing.id}`)).body.status).toBe('returned')
   })
 })
+
+describe('a notice that failed for good', () => {
+  // Each send is tried once here, and the capture server refuses the first 2 messages: the demo
+  // notice queued at start and the next one fail for good.
+  let failing: RunningServer
+  beforeAll(async () => {
+    failing = await startBuiltServer({ TIGHTWELL_MAIL_CAPTURE_REJECT: '2', TIGHTWELL_MAIL_MAX_ATTEMPTS: '1', TIGHTWELL_MAIL_RETRY_SECONDS: '0.3', TIGHTWELL_MAIL_POLL_MS: '100' })
+  })
+  afterAll(async () => { await failing?.stop() })
+
+  it('an admin corrects the address and sends it again; bad input is a 400, a sent notice a 404', async () => {
+    const rater = new Client(failing.url, freshAddress())
+    const admin = new Client(failing.url, freshAddress())
+    await rater.signIn('rater@tightwell.test')
+    await admin.signIn('admin@tightwell.test')
+    const { filing } = await filedTest(rater, oneReading(870))
+    const outbox = async () => (await admin.get('/api/outbox')).body as { id: number, status: string, to: string, filingId: number | null, captured: { envelopeTo: string[] } | null }[]
+    let notice: Awaited<ReturnType<typeof outbox>>[number] | undefined
+    const until = Date.now() + 20_000
+    while (Date.now() < until) {
+      notice = (await outbox()).find(r => r.filingId === filing.id)
+      if (notice?.status === 'failed') break
+      await new Promise(r => setTimeout(r, 150))
+    }
+    expect(notice?.status).toBe('failed')
+
+    const bad = await admin.post(`/api/outbox/${notice!.id}/retry`, { to: 'not an address' })
+    expect(bad.status).toBe(400)
+    expect(bad.body.data.field).toBe('to')
+    expect((await rater.post(`/api/outbox/${notice!.id}/retry`, {})).status).toBe(403)
+
+    expect((await admin.post(`/api/outbox/${notice!.id}/retry`, { to: 'permits-desk@juniperflats.test' })).status).toBe(200)
+    let sent: typeof notice
+    const until2 = Date.now() + 20_000
+    while (Date.now() < until2) {
+      sent = (await outbox()).find(r => r.id === notice!.id)
+      if (sent?.status === 'sent' && sent.captured) break
+      await new Promise(r => setTimeout(r, 150))
+    }
+    expect(sent).toMatchObject({ status: 'sent', to: 'permits-desk@juniperflats.test' })
+    expect(sent!.captured!.envelopeTo).toEqual(['permits-desk@juniperflats.test'])
+    expect((await admin.post(`/api/outbox/${notice!.id}/retry`, {})).status).toBe(404)
+  })
+})
