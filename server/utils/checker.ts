@@ -230,37 +230,9 @@ export function checkMetricsOf(a: LeakageResult): CheckMetrics {
   }
 }
 
-function directionFiguresOf(d: DirectionResult): CheckMetrics['directions'][number] {
-  return {
-    direction: d.direction,
-    method: d.method,
-    flowExponent: d.flowExponent,
-    flowExponentCi95: d.flowExponentCi95,
-    flowCoefficient: d.flowCoefficient,
-    flowCoefficientSi: d.flowCoefficientSi,
-    flowCoefficientCi95: d.flowCoefficientCi95,
-    r2: d.r2,
-    tValue: d.tValue,
-    cfm50Ci95: d.cfm50Ci95,
-    ach50Ci95: d.ach50Ci95,
-    temperatureFactor: d.temperatureFactor,
-    baselineAverage: d.baselineAverage,
-    warnings: d.warnings,
-    cfm50: d.cfm50,
-    q50: d.q50,
-    ach50: d.ach50,
-    n50: d.n50,
-    cfm50PerEnclosureArea: d.cfm50PerEnclosureArea,
-    cfm50PerFloorArea: d.cfm50PerFloorArea,
-    airPermeability50: d.airPermeability50,
-    w50: d.w50,
-    ela4SqIn: d.ela4SqIn,
-    ela4Cm2: d.ela4Cm2,
-    eqla10SqIn: d.eqla10SqIn,
-    eqla10Cm2: d.eqla10Cm2,
-    sla: d.sla,
-    nl: d.nl,
-  }
+/** A direction without its plot data (two-direction tests only, so a plain copy does). */
+function directionFiguresOf({ points: _points, fitLine: _fitLine, ...figures }: DirectionResult): CheckMetrics['directions'][number] {
+  return figures
 }
 
 /** A published rule as the judge takes it; rules are frozen and reused, so each is mapped once. */

@@ -1,7 +1,7 @@
 import { ASSUMED_EXPONENT_RANGE, MAX_READINGS, checkCalculation, checkTestReadings } from '../leakage/schema'
-import { STATE_BY_FIPS, isStateCode } from '../rules/fips'
+import { isStateCode, stateForFips } from '../rules/fips'
 import { isIsoDate } from '../rules/resolve'
-import { MAX_PERMIT_YEARS_AHEAD, type CheckRequest } from './schema'
+import { latestPermitDate, type CheckRequest } from './schema'
 
 /**
  * The accept-only fast path of {@link CheckRequest} for the checker's hot route.
@@ -24,7 +24,7 @@ export function acceptCheckRequest(input: unknown, now: number = Date.now()): Ch
   if (reverse !== undefined && !acceptTest(reverse)) return undefined
   const where = acceptAddress(address)
   if (!where) return undefined
-  if (typeof permitDate !== 'string' || !isIsoDate(permitDate) || permitDate > latestPermitDate(now)) return undefined
+  if (typeof permitDate !== 'string' || !isIsoDate(permitDate) || permitDate > latestPermitDateAt(now)) return undefined
   if (buildingType !== 'detached' && buildingType !== 'attached') return undefined
   if (jurisdictionId !== undefined && !(Number.isSafeInteger(jurisdictionId) && (jurisdictionId as number) > 0)) return undefined
 
@@ -50,7 +50,6 @@ const READING_KEYS = new Set(['pressure', 'flow'])
 const ADDRESS_KEYS = new Set(['line1', 'city', 'state', 'postalCode', 'countyFips'])
 const POSTAL_CODE = /^\d{5}(-\d{4})?$/
 const COUNTY_FIPS = /^\d{5}$/
-const FIPS_BY_STATE: Record<string, string> = Object.fromEntries(Object.entries(STATE_BY_FIPS).map(([f, s]) => [s, f]))
 
 /** Collects whether a cross-field check raised anything (the fast path only needs yes or no). */
 class Sink {
@@ -123,20 +122,16 @@ function acceptAddress(value: unknown): CheckRequest['address'] | undefined {
   if (countyFips !== undefined) {
     if (typeof countyFips !== 'string') return undefined
     const fips = countyFips.trim()
-    if (!COUNTY_FIPS.test(fips) || !fips.startsWith(FIPS_BY_STATE[address.state] ?? '??')) return undefined
+    if (!COUNTY_FIPS.test(fips) || stateForFips(fips) !== address.state) return undefined
     address.countyFips = fips
   }
   return address
 }
 
-/** The latest permit date accepted (YYYY-MM-DD), as the schema computes it; remembered per minute. */
+/** latestPermitDate, remembered per minute (a day boundary is a minute boundary). */
 let latest = { minute: Number.NaN, date: '' }
-function latestPermitDate(now: number): string {
+function latestPermitDateAt(now: number): string {
   const minute = Math.floor(now / 60_000)
-  if (minute !== latest.minute) {
-    const limit = new Date(minute * 60_000)
-    limit.setUTCFullYear(limit.getUTCFullYear() + MAX_PERMIT_YEARS_AHEAD)
-    latest = { minute, date: limit.toISOString().slice(0, 10) }
-  }
+  if (minute !== latest.minute) latest = { minute, date: latestPermitDate(new Date(minute * 60_000)) }
   return latest.date
 }

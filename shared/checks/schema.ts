@@ -1,6 +1,6 @@
 import { z } from 'zod'
 import { calculationShape, withCalculationChecks } from '../leakage/schema'
-import { STATE_BY_FIPS, isStateCode } from '../rules/fips'
+import { isStateCode, stateForFips } from '../rules/fips'
 import { isIsoDate } from '../rules/resolve'
 import { BUILDING_TYPES } from '../rules/variables'
 
@@ -20,14 +20,17 @@ export const AddressSchema = z.strictObject({
     .optional(),
 })
 
+/** The latest permit date accepted on `today` (YYYY-MM-DD). */
+export function latestPermitDate(today: Date): string {
+  const limit = new Date(today)
+  limit.setUTCFullYear(limit.getUTCFullYear() + MAX_PERMIT_YEARS_AHEAD)
+  return limit.toISOString().slice(0, 10)
+}
+
 function permitDate(today: () => Date) {
   return z.string({ error: 'Permit date is required (YYYY-MM-DD).' })
     .refine(isIsoDate, 'Permit date must be a real date written YYYY-MM-DD.')
-    .refine((d) => {
-      const limit = today()
-      limit.setUTCFullYear(limit.getUTCFullYear() + MAX_PERMIT_YEARS_AHEAD)
-      return d <= limit.toISOString().slice(0, 10)
-    }, `Permit date is more than ${MAX_PERMIT_YEARS_AHEAD} years in the future.`)
+    .refine(d => d <= latestPermitDate(today()), `Permit date is more than ${MAX_PERMIT_YEARS_AHEAD} years in the future.`)
 }
 
 /** The body of POST /api/checks: a calculation request plus where and when. */
@@ -39,15 +42,10 @@ export function checkRequestSchema(today: () => Date = () => new Date()) {
     jurisdictionId: z.number({ error: 'Jurisdiction id must be a number.' }).int('Jurisdiction id must be a whole number.').positive('Jurisdiction id must be positive.').optional(),
   })).superRefine((value, ctx) => {
     const fips = value.address.countyFips
-    if (fips && !fips.startsWith(stateFipsOf(value.address.state))) {
+    if (fips && stateForFips(fips) !== value.address.state) {
       ctx.addIssue({ code: 'custom', path: ['address', 'countyFips'], message: `County FIPS ${fips} is not in ${value.address.state}.` })
     }
   })
-}
-
-const FIPS_BY_STATE: Record<string, string> = Object.fromEntries(Object.entries(STATE_BY_FIPS).map(([f, s]) => [s, f]))
-function stateFipsOf(state: string): string {
-  return FIPS_BY_STATE[state] ?? '??'
 }
 
 export const CheckRequest = checkRequestSchema()
